@@ -1,0 +1,120 @@
+import { existsSync } from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { randomUUID } from 'node:crypto';
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import { pinoHttp } from 'pino-http';
+import type { Config } from './config.ts';
+import { csrf } from './http/csrf.ts';
+import { apiNotFound, errorMiddleware } from './http/errors.ts';
+import { sessionMiddleware } from './http/session.ts';
+import { authRouter, createPassport } from './modules/auth/auth.router.ts';
+import { createAuthService } from './modules/auth/auth.service.ts';
+import { mailboxRouter } from './modules/dev-mailbox/mailbox.router.ts';
+import { usersRouter } from './modules/users/users.router.ts';
+import { ordersRouter } from './modules/orders/orders.router.ts';
+import { createOrdersService } from './modules/orders/orders.service.ts';
+import { paymentsRouter, paymentWebhookRouter } from './modules/payments/payments.router.ts';
+import { createPaymentsService } from './modules/payments/payments.service.ts';
+import type { Services } from './services.ts';
+
+export const webDistDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../web/dist');
+
+/** Build the Express app without listening; main.ts listens, tests use supertest. */
+export function createApp(config: Config, services: Services): Express {
+  const { db, logger } = services;
+  const app = express();
+  app.disable('x-powered-by');
+  if (config.trustProxy) app.set('trust proxy', 1);
+
+  app.use(
+    pinoHttp({
+      logger,
+      genReqId: (req, res) => {
+        const incoming = req.headers['x-request-id'];
+        const id = typeof incoming === 'string' && /^[\w-]{1,100}$/.test(incoming) ? incoming : randomUUID();
+        res.setHeader('X-Request-Id', id);
+        return id;
+      },
+      autoLogging: { ignore: (req) => req.url === '/api/health' },
+    }),
+  );
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          defaultSrc: ["'self'"],
+          scriptSrc: ["'self'"],
+          // Inline style attributes come from React and from rendered e-mails in the demo mailbox.
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          mediaSrc: ["'self'", 'blob:'],
+          fontSrc: ["'self'"],
+          connectSrc: ["'self'"],
+          frameSrc: ["'self'"],
+          frameAncestors: ["'none'"],
+          formAction: ["'self'"],
+          objectSrc: ["'none'"],
+          baseUri: ["'self'"],
+          upgradeInsecureRequests: config.secureCookies ? [] : null,
+        },
+      },
+      hsts: config.secureCookies,
+    }),
+  );
+
+  app.get('/api/health', (_req, res) => {
+    res.json({ status: 'ok' });
+  });
+
+  const mailQueued = () => void services.mail.kick();
+  const payments = createPaymentsService({
+    db,
+    provider: services.paymentProvider,
+    webhookSecret: config.payments.webhookSecret,
+    publicUrl: config.publicUrl,
+    mailQueued,
+    log: logger,
+  });
+  // Signed by the provider, not by a session: before the JSON parser (it needs the raw body) and the CSRF check.
+  app.use('/api/payments/webhook', paymentWebhookRouter(payments));
+
+  app.use('/api', express.json({ limit: '100kb' }));
+  app.use('/api', sessionMiddleware(config, services.sessionStore));
+  const auth = createAuthService({
+    db,
+    publicUrl: config.publicUrl,
+    passwordHashCost: config.passwordHashCost,
+    mailQueued,
+  });
+  const passport = createPassport(db, auth);
+  app.use('/api', passport.initialize());
+  app.use('/api', passport.session());
+  // Every state-changing /api request carries the session's CSRF token.
+  app.use('/api', csrf.csrfSynchronisedProtection);
+
+  app.use('/api/auth', authRouter(config, db, auth, passport));
+  app.use('/api/users', usersRouter(auth));
+  const orders = createOrdersService({ db, publicUrl: config.publicUrl, mailQueued, refundOrderPayment: payments.refundOrderPayment });
+  app.use('/api', ordersRouter(db, orders));
+  app.use('/api', paymentsRouter(payments));
+  if (services.fakeMailApiUrl) app.use('/api/dev/mailbox', mailboxRouter(services.fakeMailApiUrl));
+  app.use('/api', apiNotFound);
+
+  if (existsSync(path.join(webDistDir, 'index.html'))) {
+    app.use(express.static(webDistDir, { index: false, maxAge: '1h', setHeaders: immutableAssets }));
+    // Client-side routes: every other GET gets the app shell.
+    app.get('/{*splat}', (_req, res) => {
+      res.set('Cache-Control', 'no-cache').sendFile(path.join(webDistDir, 'index.html'));
+    });
+  }
+
+  app.use(errorMiddleware((err, msg) => logger.error({ err }, msg)));
+  return app;
+}
+
+/** Vite fingerprints files under /assets, so they can be cached for good. */
+function immutableAssets(res: express.Response, filePath: string) {
+  if (filePath.includes(`${path.sep}assets${path.sep}`)) res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
+}

@@ -1,0 +1,5 @@
+export { createApp, webDistDir } from './app.ts';
+export { parseConfig, ConfigError, type Config } from './config.ts';
+export { createServices, type Services, type ServiceOptions } from './services.ts';
+export { createDb, knexConfig, migrateLatest } from './db.ts';
+export { hashPassword } from './modules/auth/passwords.ts';

@@ -1,0 +1,170 @@
+import type { Knex } from 'knex';
+import type { OrderAccess, OrderKind, OrderStatus, PartyRole, PaymentState, Payer, Side } from '@underfoot/core';
+
+export interface OrderRow {
+  id: string;
+  company_id: string;
+  property_id: string;
+  kind: OrderKind;
+  ordering_side: Side;
+  status: OrderStatus;
+  contingency_deadline: string;
+  preferred_dates: string;
+  payer: Payer;
+  fee_total_cents: number;
+  payment_state: PaymentState;
+  assigned_inspector_id: string | null;
+  window_date: string | null;
+  window_start: string | null;
+  window_end: string | null;
+  note: string;
+  cancel_reason: string | null;
+  created_by: string | null;
+  created_at: string;
+  updated_at: string;
+}
+
+export interface PartyRecord {
+  userId: string;
+  partyRole: PartyRole;
+  name: string;
+  email: string;
+  /** False while the person has not yet accepted their invitation. */
+  active: boolean;
+}
+
+/** Normalised street + unit + postal code, used to notice the same property ordered twice. */
+export function addressKey(a: { street: string; unit: string; postalCode: string }): string {
+  return [a.street, a.unit, a.postalCode].map((s) => s.toLowerCase().replace(/[.,#]/g, ' ').replace(/\s+/g, ' ').trim()).join('|');
+}
+
+export async function findOrderRow(db: Knex, id: string): Promise<OrderRow | undefined> {
+  return db<OrderRow>('orders').where({ id }).first();
+}
+
+export async function listParties(db: Knex, orderId: string): Promise<PartyRecord[]> {
+  const rows = await db('order_parties')
+    .join('users', 'users.id', 'order_parties.user_id')
+    .where('order_parties.order_id', orderId)
+    .orderBy('order_parties.id')
+    .select('order_parties.user_id', 'order_parties.party_role', 'users.name', 'users.email', 'users.password_hash');
+  return rows.map((r) => ({ userId: r.user_id, partyRole: r.party_role, name: r.name, email: r.email, active: r.password_hash !== null }));
+}
+
+/** What core's `can` needs to decide about one order. */
+export async function loadOrderAccess(db: Knex, order: OrderRow): Promise<OrderAccess> {
+  const parties = await db('order_parties').where({ order_id: order.id }).select('user_id', 'party_role');
+  return {
+    companyId: order.company_id,
+    status: order.status,
+    assignedInspectorId: order.assigned_inspector_id,
+    orderingSide: order.ordering_side,
+    parties: parties.map((p) => ({ userId: p.user_id, partyRole: p.party_role })),
+    // Reports arrive with the review issue; until then nothing is released.
+    releasedTo: [],
+    reportId: null,
+    published: order.status === 'published',
+  };
+}
+
+export async function addOrderEvent(
+  db: Knex,
+  event: { orderId: string; actorUserId: string | null; type: string; detail?: Record<string, unknown> },
+): Promise<void> {
+  await db('order_events').insert({
+    order_id: event.orderId,
+    actor_user_id: event.actorUserId,
+    type: event.type,
+    detail: event.detail ? JSON.stringify(event.detail) : null,
+    created_at: new Date().toISOString(),
+  });
+}
+
+export async function listOrderEvents(db: Knex, orderId: string) {
+  const rows = await db('order_events')
+    .leftJoin('users', 'users.id', 'order_events.actor_user_id')
+    .where('order_events.order_id', orderId)
+    .orderBy('order_events.id')
+    .select('order_events.id', 'order_events.type', 'order_events.detail', 'order_events.created_at', 'users.name as actor_name');
+  return rows.map((r) => ({
+    id: r.id as number,
+    type: r.type as string,
+    detail: r.detail ? (JSON.parse(r.detail) as Record<string, unknown>) : {},
+    at: r.created_at as string,
+    actorName: (r.actor_name as string | null) ?? null,
+  }));
+}
+
+export interface OrderListFilter {
+  companyId: string;
+  /** Restrict to orders this person is a party on, or assigned to; undefined = the whole company (office). */
+  partyUserId?: string;
+  inspectorId?: string;
+  statuses?: OrderStatus[] | undefined;
+  /** Only visits on this date (YYYY-MM-DD). */
+  windowDate?: string | undefined;
+  search?: string | undefined;
+  sort: 'deadline' | 'created' | 'status' | 'address' | 'window';
+  direction: 'asc' | 'desc';
+  limit: number;
+  offset: number;
+}
+
+export async function listOrders(db: Knex, filter: OrderListFilter) {
+  const base = db('orders')
+    .join('properties', 'properties.id', 'orders.property_id')
+    .leftJoin('users as inspectors', 'inspectors.id', 'orders.assigned_inspector_id')
+    .where('orders.company_id', filter.companyId);
+  if (filter.partyUserId) {
+    base.whereIn('orders.id', db('order_parties').select('order_id').where('user_id', filter.partyUserId));
+  }
+  if (filter.inspectorId) base.where('orders.assigned_inspector_id', filter.inspectorId);
+  if (filter.statuses?.length) base.whereIn('orders.status', filter.statuses);
+  if (filter.windowDate) base.where('orders.window_date', filter.windowDate);
+  if (filter.search) {
+    const like = `%${filter.search.toLowerCase().replace(/[%_]/g, (c) => `\\${c}`)}%`;
+    base.where((q) =>
+      q
+        .whereRaw("lower(properties.street) like ? escape '\\'", [like])
+        .orWhereRaw("lower(properties.city) like ? escape '\\'", [like])
+        .orWhereRaw("lower(properties.postal_code) like ? escape '\\'", [like]),
+    );
+  }
+  const countRow = await base.clone().count({ n: '*' }).first();
+  const sortColumn = {
+    deadline: 'orders.contingency_deadline',
+    created: 'orders.created_at',
+    status: 'orders.status',
+    address: 'properties.street',
+    window: 'orders.window_date',
+  }[filter.sort];
+  const rows = await base
+    .clone()
+    .select(
+      'orders.*',
+      'properties.street',
+      'properties.unit',
+      'properties.city',
+      'properties.region',
+      'properties.postal_code',
+      'properties.year_built',
+      'properties.property_type',
+      'inspectors.name as inspector_name',
+    )
+    .orderBy([
+      { column: sortColumn, order: filter.direction },
+      { column: 'orders.window_start', order: 'asc' },
+      { column: 'orders.id', order: 'asc' },
+    ])
+    .limit(filter.limit)
+    .offset(filter.offset);
+  return { rows, total: Number(countRow?.n ?? 0) };
+}
+
+export async function openOrdersForAddress(db: Knex, companyId: string, key: string): Promise<{ id: string; status: OrderStatus }[]> {
+  return db('orders')
+    .join('properties', 'properties.id', 'orders.property_id')
+    .where({ 'orders.company_id': companyId, 'properties.address_key': key })
+    .whereNotIn('orders.status', ['published', 'cancelled'])
+    .select('orders.id', 'orders.status');
+}

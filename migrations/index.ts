@@ -1,0 +1,24 @@
+import type { Knex } from 'knex';
+import * as m202612010001 from './202612010001_accounts.ts';
+import * as m202612010002 from './202612010002_orders.ts';
+
+interface MigrationModule {
+  up(knex: Knex): Promise<void>;
+  down(knex: Knex): Promise<void>;
+}
+
+/**
+ * Every migration, in order. Knex cannot load .ts files from a folder under
+ * vitest or plain node, so the list is explicit and shared by the server, the
+ * CLI scripts and the tests.
+ */
+const migrations: [string, MigrationModule][] = [
+  ['202612010001_accounts', m202612010001],
+  ['202612010002_orders', m202612010002],
+];
+
+export const migrationSource: Knex.MigrationSource<[string, MigrationModule]> = {
+  getMigrations: async () => migrations,
+  getMigrationName: ([name]) => name,
+  getMigration: async ([, migration]) => migration,
+};

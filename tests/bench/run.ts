@@ -1,0 +1,12 @@
+/**
+ * `npm run bench`: every benchmark, each printing its figures as ratios to a
+ * baseline measured in the same run (absolute times on shared machines mean little).
+ */
+import { benchCore } from './core.bench.ts';
+
+const benches: [string, () => Promise<void>][] = [['core analysis', benchCore]];
+
+for (const [name, run] of benches) {
+  console.log(`\n== ${name}`);
+  await run();
+}
