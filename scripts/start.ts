@@ -1,5 +1,5 @@
 import type { Server } from 'node:http';
-import { startFakeSmtp, type FakeSmtp } from '@underfoot/fakes';
+import { startFakePayments, startFakeSmtp, type FakePayments, type FakeSmtp } from '@underfoot/fakes';
 import { ConfigError, createApp, createServices, parseConfig, webDistDir } from '@underfoot/server';
 import { existsSync } from 'node:fs';
 import path from 'node:path';
@@ -37,10 +37,27 @@ async function main() {
     }
   }
 
-  const services = await createServices(
-    config,
-    fakeMail ? { fakeMail: { host: fakeMail.host, smtpPort: fakeMail.smtpPort, httpPort: fakeMail.httpPort } } : {},
-  );
+  let fakePayments: FakePayments | undefined;
+  if (!config.payments.secretKey) {
+    try {
+      fakePayments = await startFakePayments({
+        port: config.payments.fakePort,
+        webhookUrl: `http://127.0.0.1:${config.port}/api/payments/webhook`,
+        webhookSecret: config.payments.webhookSecret,
+      });
+    } catch (err) {
+      console.error(
+        `The demo payment provider could not listen on port ${config.payments.fakePort} (${(err as Error).message}).\n` +
+          'Another Underfoot may be running; stop it, or set FAKE_PAYMENTS_PORT.',
+      );
+      process.exit(1);
+    }
+  }
+
+  const services = await createServices(config, {
+    ...(fakeMail ? { fakeMail: { host: fakeMail.host, smtpPort: fakeMail.smtpPort, httpPort: fakeMail.httpPort } } : {}),
+    ...(fakePayments ? { fakePayments: { host: fakePayments.host, port: fakePayments.port } } : {}),
+  });
   const { seeded } = await seedDemo(services.db, { passwordHashCost: config.passwordHashCost });
   const app = createApp(config, services);
 
@@ -57,6 +74,9 @@ async function main() {
       fakeMail
         ? `  Demo mailbox (every e-mail the app sends): ${config.publicUrl}/mailbox`
         : `  Mail goes out through ${new URL(config.mail.smtpUrl!).host}`,
+      fakePayments
+        ? `  Payments go to a local test provider (no real money): ${fakePayments.url}`
+        : '  Payments go to the configured provider',
       `  Data folder: ${config.dataDir}${seeded ? ' (demo data added)' : ''}`,
       '',
       `  Demo accounts — every one uses the password: ${DEMO_PASSWORD}`,
@@ -71,6 +91,7 @@ async function main() {
       void services
         .close()
         .then(() => fakeMail?.close())
+        .then(() => fakePayments?.close())
         .then(() => process.exit(0));
     });
     // Keep-alive connections would hold close() open; end them.

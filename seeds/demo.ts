@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import type { Role } from '@underfoot/core';
 import { hashPassword } from '@underfoot/server';
+import { seedDemoOrders } from './orders.ts';
 
 /**
  * The invented demo scenario: a sewer-camera company in the made-up town of
@@ -117,5 +118,6 @@ export async function seedDemo(db: Knex, options: { passwordHashCost: number }):
       })),
     );
   });
+  await seedDemoOrders(db);
   return { seeded: true };
 }

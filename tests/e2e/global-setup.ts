@@ -59,7 +59,7 @@ export default async function setup(project: TestProject) {
   }
 
   const dataDir = mkdtempSync(path.join(tmpdir(), 'underfoot-e2e-'));
-  const [port, smtpPort, mailHttpPort] = [await freePort(), await freePort(), await freePort()];
+  const [port, smtpPort, mailHttpPort, paymentsPort] = [await freePort(), await freePort(), await freePort(), await freePort()];
   const baseUrl = `http://127.0.0.1:${port}`;
   let output = '';
   const child = spawn(process.execPath, ['--import', 'tsx', 'scripts/start.ts'], {
@@ -72,6 +72,7 @@ export default async function setup(project: TestProject) {
       DATA_DIR: dataDir,
       FAKE_SMTP_PORT: String(smtpPort),
       FAKE_SMTP_HTTP_PORT: String(mailHttpPort),
+      FAKE_PAYMENTS_PORT: String(paymentsPort),
       PASSWORD_HASH_COST: '12',
       MAIL_POLL_MS: '200',
       LOG_LEVEL: 'warn',

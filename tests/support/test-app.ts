@@ -4,7 +4,9 @@ import path from 'node:path';
 import type { Express } from 'express';
 import request from 'supertest';
 import type { Role } from '@underfoot/core';
-import { startFakeSmtp, type FakeSmtp } from '@underfoot/fakes';
+import type { Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { startFakePayments, startFakeSmtp, type FakePayments, type FakeSmtp } from '@underfoot/fakes';
 import { createApp, createServices, hashPassword, parseConfig, type Config, type Services } from '@underfoot/server';
 
 export const TEST_PASSWORD = 'correct horse battery';
@@ -14,6 +16,9 @@ export interface TestContext {
   config: Config;
   services: Services;
   mail: FakeSmtp;
+  /** The fake payment provider; its webhooks reach this app, which listens on a loopback port. */
+  payments: FakePayments;
+  baseUrl: string;
   companyId: string;
   users: Record<Role, { id: string; email: string }>;
   addUser(role: Role, email: string, companyId?: string): Promise<{ id: string; email: string }>;
@@ -34,8 +39,21 @@ export async function createTestContext(env: Record<string, string> = {}): Promi
     PUBLIC_URL: 'http://underfoot.test',
     ...env,
   });
-  const services = await createServices(config, { fakeMail: { host: mail.host, smtpPort: mail.smtpPort, httpPort: mail.httpPort } });
+  const payments = await startFakePayments({
+    webhookUrl: 'http://127.0.0.1:9/not-yet',
+    webhookSecret: config.payments.webhookSecret,
+    webhookRetryDelaysMs: [100, 200],
+  });
+  const services = await createServices(config, {
+    fakeMail: { host: mail.host, smtpPort: mail.smtpPort, httpPort: mail.httpPort },
+    fakePayments: { host: payments.host, port: payments.port },
+  });
   const app = createApp(config, services);
+  const server: Server = await new Promise((resolve) => {
+    const listening = app.listen(0, '127.0.0.1', () => resolve(listening));
+  });
+  const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  payments.setWebhookUrl(`${baseUrl}/api/payments/webhook`);
   const { db } = services;
   const now = new Date().toISOString();
   const passwordHash = await hashPassword(TEST_PASSWORD, 10);
@@ -73,11 +91,16 @@ export async function createTestContext(env: Record<string, string> = {}): Promi
     config,
     services,
     mail,
+    payments,
+    baseUrl,
     companyId,
     users,
     addUser,
     addCompany,
     async close() {
+      server.closeAllConnections();
+      await new Promise((resolve) => server.close(resolve));
+      await payments.close();
       await services.close();
       await mail.close();
       rmSync(dataDir, { recursive: true, force: true });

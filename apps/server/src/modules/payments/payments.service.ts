@@ -229,7 +229,8 @@ export function createPaymentsService(deps: PaymentsServiceDeps) {
 
   async function markRefunded(trx: Knex.Transaction, paymentIntentId: string): Promise<boolean> {
     const payment = await trx('payments').where({ payment_intent_id: paymentIntentId }).first();
-    if (!payment) return false;
+    // A refund can overtake the payment it refunds. Answer non-2xx (rolling back the event record) so the provider retries it later.
+    if (!payment) throw new HttpError(409, 'payment_not_seen_yet', 'This refund is for a payment not recorded yet; send it again later.');
     const order = (await findOrderRow(trx, payment.order_id))!;
     const firstTime = payment.status !== 'refunded';
     await trx('payments').where({ id: payment.id }).update({ status: 'refunded', updated_at: nowIso() });
