@@ -33,6 +33,11 @@ const envSchema = z.object({
   SIGN_IN_LIMIT_PER_ADDRESS: z.coerce.number().int().min(1).default(20),
   SIGN_IN_LIMIT_PER_ACCOUNT: z.coerce.number().int().min(1).default(8),
   MAIL_POLL_MS: z.coerce.number().int().min(50).default(1000),
+  /** Largest video upload; a lateral's camera run is typically a few hundred MB. */
+  MEDIA_MAX_VIDEO_MB: z.coerce.number({ error: 'must be a number of megabytes' }).positive().default(4096),
+  MEDIA_MAX_STILL_MB: z.coerce.number({ error: 'must be a number of megabytes' }).positive().default(25),
+  /** Pixel limit for stills and photos (decompression bombs are refused before they are decoded). */
+  MEDIA_MAX_STILL_MEGAPIXELS: z.coerce.number({ error: 'must be a number of megapixels' }).positive().max(268).default(100),
 });
 
 export interface Config {
@@ -42,7 +47,8 @@ export interface Config {
   publicUrl: string;
   dataDir: string;
   databaseUrl: string | undefined;
-  sessionSecret: string;
+  /** Undefined in a demo install until `sessionSecretFor` reads or writes it; parsing never touches the disk. */
+  sessionSecret: string | undefined;
   trustProxy: boolean;
   /** true when cookies must carry the Secure flag (the public address is HTTPS). */
   secureCookies: boolean;
@@ -63,6 +69,8 @@ export interface Config {
   logLevel: 'fatal' | 'error' | 'warn' | 'info' | 'debug' | 'trace' | 'silent';
   passwordHashCost: number;
   signInLimits: { perAddress: number; perAccount: number; windowMs: number };
+  /** Uploaded video and stills: files under DATA_DIR/media. */
+  media: { dir: string; maxVideoBytes: number; maxStillBytes: number; maxStillPixels: number };
 }
 
 /** The local fake provider's credentials; they open nothing outside this machine. */
@@ -77,7 +85,9 @@ export class ConfigError extends Error {
 }
 
 /** A demo install keeps one generated secret in its data folder so restarts keep people signed in. */
-function demoSessionSecret(dataDir: string): string {
+export function sessionSecretFor(config: Pick<Config, 'sessionSecret' | 'dataDir'>): string {
+  if (config.sessionSecret) return config.sessionSecret;
+  const dataDir = config.dataDir;
   const file = path.join(dataDir, 'session-secret');
   if (existsSync(file)) return readFileSync(file, 'utf8').trim();
   mkdirSync(dataDir, { recursive: true });
@@ -108,7 +118,8 @@ export function parseConfig(env: NodeJS.ProcessEnv = process.env): Config {
     publicUrl,
     dataDir,
     databaseUrl: e.DATABASE_URL,
-    sessionSecret: e.SESSION_SECRET ?? (e.NODE_ENV === 'test' ? randomBytes(32).toString('hex') : demoSessionSecret(dataDir)),
+    // Tests get a throw-away secret; a demo install reads or makes one in DATA_DIR when the server starts (sessionSecretFor).
+    sessionSecret: e.SESSION_SECRET ?? (e.NODE_ENV === 'test' ? randomBytes(32).toString('hex') : undefined),
     trustProxy: e.TRUST_PROXY,
     secureCookies: publicUrl.startsWith('https://'),
     mail: {
@@ -126,5 +137,11 @@ export function parseConfig(env: NodeJS.ProcessEnv = process.env): Config {
     logLevel: e.LOG_LEVEL,
     passwordHashCost: e.PASSWORD_HASH_COST,
     signInLimits: { perAddress: e.SIGN_IN_LIMIT_PER_ADDRESS, perAccount: e.SIGN_IN_LIMIT_PER_ACCOUNT, windowMs: 15 * 60_000 },
+    media: {
+      dir: path.join(dataDir, 'media'),
+      maxVideoBytes: Math.floor(e.MEDIA_MAX_VIDEO_MB * 1024 * 1024),
+      maxStillBytes: Math.floor(e.MEDIA_MAX_STILL_MB * 1024 * 1024),
+      maxStillPixels: Math.floor(e.MEDIA_MAX_STILL_MEGAPIXELS * 1_000_000),
+    },
   };
 }

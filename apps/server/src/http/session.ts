@@ -2,7 +2,7 @@ import type { RequestHandler } from 'express';
 import session from 'express-session';
 import { ConnectSessionKnexStore } from 'connect-session-knex';
 import type { Knex } from 'knex';
-import type { Config } from '../config.ts';
+import { sessionSecretFor, type Config } from '../config.ts';
 
 export const SESSION_COOKIE = 'underfoot.sid';
 
@@ -19,7 +19,7 @@ export function createSessionStore(db: Knex, config: Config): ConnectSessionKnex
 export function sessionMiddleware(config: Config, store: ConnectSessionKnexStore): RequestHandler {
   return session({
     name: SESSION_COOKIE,
-    secret: config.sessionSecret,
+    secret: sessionSecretFor(config),
     store,
     resave: false,
     saveUninitialized: false,
