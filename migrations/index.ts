@@ -1,6 +1,9 @@
 import type { Knex } from 'knex';
 import * as m202612010001 from './202612010001_accounts.ts';
 import * as m202612010002 from './202612010002_orders.ts';
+import * as m202612010003 from './202612010003_company_admin.ts';
+import * as m202612010004 from './202612010004_inspections.ts';
+import * as m202612010005 from './202612010005_reports.ts';
 
 interface MigrationModule {
   up(knex: Knex): Promise<void>;
@@ -15,6 +18,9 @@ interface MigrationModule {
 const migrations: [string, MigrationModule][] = [
   ['202612010001_accounts', m202612010001],
   ['202612010002_orders', m202612010002],
+  ['202612010003_company_admin', m202612010003],
+  ['202612010004_inspections', m202612010004],
+  ['202612010005_reports', m202612010005],
 ];
 
 export const migrationSource: Knex.MigrationSource<[string, MigrationModule]> = {

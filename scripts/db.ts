@@ -14,7 +14,7 @@ try {
     console.log(undone.length ? `Rolled back: ${undone.join(', ')}` : 'Nothing to roll back.');
   } else if (command === 'seed') {
     await db.migrate.latest();
-    const { seeded } = await seedDemo(db, { passwordHashCost: config.passwordHashCost });
+    const { seeded } = await seedDemo(db, { passwordHashCost: config.passwordHashCost, mediaDir: config.media.dir });
     console.log(seeded ? 'Demo data added.' : 'Demo data was already there.');
   } else {
     console.error('Usage: tsx scripts/db.ts migrate|rollback|seed');

@@ -58,7 +58,7 @@ async function main() {
     ...(fakeMail ? { fakeMail: { host: fakeMail.host, smtpPort: fakeMail.smtpPort, httpPort: fakeMail.httpPort } } : {}),
     ...(fakePayments ? { fakePayments: { host: fakePayments.host, port: fakePayments.port } } : {}),
   });
-  const { seeded } = await seedDemo(services.db, { passwordHashCost: config.passwordHashCost });
+  const { seeded } = await seedDemo(services.db, { passwordHashCost: config.passwordHashCost, mediaDir: config.media.dir });
   const app = createApp(config, services);
 
   const server: Server = app.listen(config.port, config.host);

@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import type { Role } from '@underfoot/core';
 import { hashPassword } from '@underfoot/server';
+import { seedDemoInspections } from './inspections.ts';
 import { seedDemoOrders } from './orders.ts';
 
 /**
@@ -16,6 +17,8 @@ export const demoCompany = {
   licenceNumber: 'AF-PLB-20417',
   phone: '(555) 014-2290',
   email: 'office@bramblewood.example.com',
+  serviceArea: 'Alder Falls, the river towns and the hill roads up to Cedar Gap.',
+  reportFooter: 'Bramblewood Drain & Camera, licensed drain contractor in Alder Falls. Questions about this report: (555) 014-2290.',
 };
 
 export interface DemoAccount {
@@ -89,7 +92,7 @@ export const demoAccounts: DemoAccount[] = [
 ];
 
 /** Seed the demo once; running it again on a seeded database changes nothing. */
-export async function seedDemo(db: Knex, options: { passwordHashCost: number }): Promise<{ seeded: boolean }> {
+export async function seedDemo(db: Knex, options: { passwordHashCost: number; mediaDir: string }): Promise<{ seeded: boolean }> {
   const existing = await db('companies').where({ id: demoCompany.id }).first();
   if (existing) return { seeded: false };
   const passwordHash = await hashPassword(DEMO_PASSWORD, options.passwordHashCost);
@@ -101,6 +104,8 @@ export async function seedDemo(db: Knex, options: { passwordHashCost: number }):
       licence_number: demoCompany.licenceNumber,
       phone: demoCompany.phone,
       email: demoCompany.email,
+      service_area: demoCompany.serviceArea,
+      report_footer: demoCompany.reportFooter,
       created_at: now,
       updated_at: now,
     });
@@ -119,5 +124,6 @@ export async function seedDemo(db: Knex, options: { passwordHashCost: number }):
     );
   });
   await seedDemoOrders(db);
+  await seedDemoInspections(db, { mediaDir: options.mediaDir });
   return { seeded: true };
 }

@@ -113,7 +113,7 @@ describe('ordering', () => {
     ).toBe(200);
     const seen = await buyerClient.agent.get(`/api/orders/${order.id}`).expect(200);
     expect(seen.body.order.yourPartyRoles).toEqual(['buyer']);
-    expect(seen.body.order.allowed).toEqual({ schedule: false, cancel: false, pay: true });
+    expect(seen.body.order.allowed).toMatchObject({ schedule: false, cancel: false, pay: true, recordInspection: false });
     // The same person invited again is linked, not duplicated.
     const again = await placeOrder(agent);
     expect((await ctx.services.db('users').where({ email: 'robin.ashdown@example.com' })).length).toBe(1);
@@ -279,7 +279,7 @@ describe('scheduling', () => {
     const office = await signedIn('office');
     const bad = await office.post(`/api/orders/${order.id}/schedule`, {
       inspectorId: ctx.users.agent.id,
-      window: { date: inDays(-1), startTime: '10:00', endTime: '09:00' },
+      window: { date: inDays(-3), startTime: '10:00', endTime: '09:00' },
     });
     expect(bad.status).toBe(400);
     expect(bad.body.errors.map((e: { path: string }) => e.path)).toEqual(expect.arrayContaining(['window.endTime', 'window.date']));
@@ -442,5 +442,34 @@ describe('payment', () => {
     const order = await placeOrder(agent);
     const office = await signedIn('office');
     expect((await office.post(`/api/orders/${order.id}/checkout`)).status).toBe(403);
+  });
+});
+
+describe('finishing the recording', () => {
+  it('the assigned inspector marks a scheduled visit recorded once the line has a run; others may not', async () => {
+    const agent = await signedIn('agent');
+    const order = await placeOrder(agent);
+    const office = await signedIn('office');
+    await office.post(`/api/orders/${order.id}/schedule`, {
+      inspectorId: ctx.users.inspector.id,
+      window: { date: inDays(1), startTime: '08:00', endTime: '10:00' },
+    });
+    const inspector = await signedIn('inspector');
+    const early = await inspector.post(`/api/orders/${order.id}/recorded`);
+    expect(early.status).toBe(409);
+    expect(early.body.code).toBe('no_runs');
+
+    const { sampleDocument } = await import('../support/inspection-fixtures.ts');
+    const saved = await inspector.agent
+      .put(`/api/orders/${order.id}/inspection`)
+      .set('x-csrf-token', inspector.token)
+      .send({ baseVersion: 0, document: sampleDocument(order.id) });
+    expect(saved.status, JSON.stringify(saved.body)).toBe(200);
+    expect((await agent.post(`/api/orders/${order.id}/recorded`)).status).toBe(403);
+    const done = await inspector.post(`/api/orders/${order.id}/recorded`);
+    expect(done.status).toBe(200);
+    expect(done.body.order.status).toBe('recorded');
+    expect(done.body.order.allowed.finishRecording).toBe(false);
+    expect((await inspector.post(`/api/orders/${order.id}/recorded`)).status).toBe(409);
   });
 });

@@ -3,8 +3,12 @@
  * baseline measured in the same run (absolute times on shared machines mean little).
  */
 import { benchCore } from './core.bench.ts';
+import { benchMedia } from './media.bench.ts';
 
-const benches: [string, () => Promise<void>][] = [['core analysis', benchCore]];
+const benches: [string, () => Promise<void>][] = [
+  ['core analysis', benchCore],
+  ['media: stills, markup, video upload', benchMedia],
+];
 
 for (const [name, run] of benches) {
   console.log(`\n== ${name}`);

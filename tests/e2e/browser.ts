@@ -57,3 +57,17 @@ export function collectPageErrors(page: Page): string[] {
   });
   return errors;
 }
+
+/** Fills in the sign-in form the browser is showing and presses Sign in; it does not wait for what follows. */
+export async function submitSignIn(page: Page, email: string, password: string): Promise<void> {
+  await page.getByLabel('E-mail address').fill(email);
+  await page.getByLabel('Password', { exact: true }).fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+}
+
+/** Opens the sign-in page and signs in, then waits until the app has moved on from it. */
+export async function signIn(page: Page, baseUrl: string, email: string, password: string): Promise<void> {
+  await page.goto(`${baseUrl}/sign-in`);
+  await submitSignIn(page, email, password);
+  await page.waitForURL((url) => url.pathname !== '/sign-in');
+}

@@ -1,7 +1,7 @@
-import type { Browser, Page } from 'playwright-core';
+import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { DEMO_PASSWORD, demoAccounts } from '../../seeds/demo.ts';
-import { collectPageErrors, launchBrowser, newPage, screenshot } from './browser.ts';
+import { collectPageErrors, launchBrowser, newPage, screenshot, signIn, submitSignIn } from './browser.ts';
 
 const baseUrl = inject('baseUrl');
 const mailApiUrl = inject('mailApiUrl');
@@ -13,13 +13,6 @@ beforeAll(async () => {
 afterAll(async () => {
   await browser?.close();
 });
-
-async function signIn(page: Page, email: string, password: string) {
-  await page.goto(`${baseUrl}/sign-in`);
-  await page.getByLabel('E-mail address').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(password);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-}
 
 const firstOf = (role: string) => demoAccounts.find((a) => a.role === role)!;
 
@@ -37,7 +30,7 @@ describe('signing in', () => {
       const { context, page } = await newPage(browser);
       const errors = collectPageErrors(page);
       try {
-        await signIn(page, account.email, DEMO_PASSWORD);
+        await signIn(page, baseUrl, account.email, DEMO_PASSWORD);
         await page.waitForURL(`${baseUrl}${path}`);
         await page.getByRole('heading', { level: 1, name: heading }).waitFor();
         await expect(page.getByText(account.name).first().isVisible()).resolves.toBe(true);
@@ -54,7 +47,7 @@ describe('signing in', () => {
     try {
       await page.goto(`${baseUrl}/sign-in`);
       await screenshot(page, 'sign-in-phone');
-      await signIn(page, firstOf('client').email, DEMO_PASSWORD);
+      await submitSignIn(page, firstOf('client').email, DEMO_PASSWORD);
       await page.waitForURL(`${baseUrl}/portal`);
       await page.getByRole('heading', { level: 1, name: 'Your reports' }).waitFor();
       const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
@@ -68,7 +61,8 @@ describe('signing in', () => {
   it('a wrong password shows its error and stays on the sign-in page', async () => {
     const { context, page } = await newPage(browser);
     try {
-      await signIn(page, firstOf('agent').email, 'not-the-password');
+      await page.goto(`${baseUrl}/sign-in`);
+      await submitSignIn(page, firstOf('agent').email, 'not-the-password');
       await page.getByText('E-mail or password is incorrect.').waitFor();
       expect(new URL(page.url()).pathname).toBe('/sign-in');
       await screenshot(page, 'sign-in-wrong-password');
@@ -82,9 +76,7 @@ describe('signing in', () => {
     try {
       await page.goto(`${baseUrl}/office`);
       await page.waitForURL(/\/sign-in\?next=/);
-      await page.getByLabel('E-mail address').fill(firstOf('office').email);
-      await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
-      await page.getByRole('button', { name: 'Sign in' }).click();
+      await submitSignIn(page, firstOf('office').email, DEMO_PASSWORD);
       await page.waitForURL(`${baseUrl}/office`);
     } finally {
       await context.close();

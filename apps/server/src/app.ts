@@ -13,11 +13,24 @@ import { authRouter, createPassport } from './modules/auth/auth.router.ts';
 import { createAuthService } from './modules/auth/auth.service.ts';
 import { mailboxRouter } from './modules/dev-mailbox/mailbox.router.ts';
 import { usersRouter } from './modules/users/users.router.ts';
+import { accountRouter } from './modules/users/account.router.ts';
+import { createAccountService } from './modules/users/account.service.ts';
+import { createPeopleService } from './modules/users/people.service.ts';
+import { signUpRouter } from './modules/users/sign-up.router.ts';
+import { createSignUpService } from './modules/users/sign-up.service.ts';
+import { companyLogoRouter, companyRouter } from './modules/company/company.router.ts';
+import { createCompanyService } from './modules/company/company.service.ts';
 import { ordersRouter } from './modules/orders/orders.router.ts';
 import { createOrdersService } from './modules/orders/orders.service.ts';
 import { paymentsRouter, paymentWebhookRouter } from './modules/payments/payments.router.ts';
 import { createPaymentsService } from './modules/payments/payments.service.ts';
+import { reportsRouter } from './modules/reports/reports.router.ts';
+import { createReportsService } from './modules/reports/reports.service.ts';
 import type { Services } from './services.ts';
+import { inspectionsRouter } from './modules/inspections/inspections.router.ts';
+import { createInspectionsService } from './modules/inspections/inspections.service.ts';
+import { mediaRouter } from './modules/media/media.router.ts';
+import { createMediaService } from './modules/media/media.service.ts';
 
 export const webDistDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../web/dist');
 
@@ -69,7 +82,9 @@ export function createApp(config: Config, services: Services): Express {
   });
 
   const mailQueued = () => void services.mail.kick();
+  const reports = createReportsService({ db, publicUrl: config.publicUrl, mailQueued, storage: services.storage });
   const payments = createPaymentsService({
+    onPaid: (trx, orderId) => reports.releaseHeld(trx, orderId),
     db,
     provider: services.paymentProvider,
     webhookSecret: config.payments.webhookSecret,
@@ -80,6 +95,8 @@ export function createApp(config: Config, services: Services): Express {
   // Signed by the provider, not by a session: before the JSON parser (it needs the raw body) and the CSRF check.
   app.use('/api/payments/webhook', paymentWebhookRouter(payments));
 
+  // A whole inspection document (hundreds of findings) is larger than a form; parsed here before the general limit.
+  app.use('/api/orders/:orderId/inspection', express.json({ limit: '2mb' }));
   app.use('/api', express.json({ limit: '100kb' }));
   app.use('/api', sessionMiddleware(config, services.sessionStore));
   const auth = createAuthService({
@@ -95,10 +112,26 @@ export function createApp(config: Config, services: Services): Express {
   app.use('/api', csrf.csrfSynchronisedProtection);
 
   app.use('/api/auth', authRouter(config, db, auth, passport));
-  app.use('/api/users', usersRouter(auth));
+  // The office runs the company (profile, fee list, price book, audit trail); everyone keeps their own account.
+  const company = createCompanyService({ db, storage: services.storage, publicUrl: config.publicUrl, log: logger });
+  const accountDeps = {
+    db,
+    publicUrl: config.publicUrl,
+    passwordHashCost: config.passwordHashCost,
+    mailQueued,
+    mailBrand: company.mailBrand,
+  };
+  app.use('/api/company-logos', companyLogoRouter(company));
+  app.use('/api/users', usersRouter(auth, createPeopleService({ db, auth })));
+  app.use('/api/account', accountRouter(config, db, createAccountService(accountDeps)));
+  app.use('/api/sign-up', signUpRouter(config, db, createSignUpService({ ...accountDeps, brand: company.brand })));
+  app.use('/api', companyRouter(company));
   const orders = createOrdersService({ db, publicUrl: config.publicUrl, mailQueued, refundOrderPayment: payments.refundOrderPayment });
   app.use('/api', ordersRouter(db, orders));
+  app.use('/api', reportsRouter(reports, services.storage));
   app.use('/api', paymentsRouter(payments));
+  app.use('/api', inspectionsRouter(createInspectionsService({ db })));
+  app.use('/api', mediaRouter(db, services.storage, createMediaService({ db, storage: services.storage, limits: config.media })));
   if (services.fakeMailApiUrl) app.use('/api/dev/mailbox', mailboxRouter(services.fakeMailApiUrl));
   app.use('/api', apiNotFound);
 

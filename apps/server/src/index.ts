@@ -4,3 +4,8 @@ export { createServices, type Services, type ServiceOptions } from './services.t
 export { createDb, knexConfig, migrateLatest } from './db.ts';
 export { hashPassword } from './modules/auth/passwords.ts';
 export { backupDataDir, restoreDataDir, type BackupManifest } from './ops/backup.ts';
+export { ingestStill, renderMarkedUp } from './modules/media/image-pipeline.ts';
+export { createLocalDiskStorage } from './storage/local-disk-storage.ts';
+export type { MediaStorage } from './storage/media-storage.ts';
+export { createReportsService, type ReportsService } from './modules/reports/reports.service.ts';
+export { findUserById } from './modules/auth/users.repo.ts';

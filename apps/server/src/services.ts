@@ -7,6 +7,8 @@ import { createDb, migrateLatest } from './db.ts';
 import { createSessionStore } from './http/session.ts';
 import { createMailTransport, OutboxWorker } from './modules/mail/outbox.worker.ts';
 import { createPaymentClient } from './modules/payments/payment-provider.ts';
+import type { MediaStorage } from './storage/media-storage.ts';
+import { createLocalDiskStorage, sweepIncoming } from './storage/local-disk-storage.ts';
 
 /** The long-lived parts the app runs on; built once per process (or per test). */
 export interface Services {
@@ -18,6 +20,8 @@ export interface Services {
   paymentProvider: Stripe;
   /** The fake mail server's HTTP API, when the demo mailbox is on. */
   fakeMailApiUrl: string | undefined;
+  /** Uploaded video and stills (local disk under DATA_DIR/media). */
+  storage: MediaStorage;
   close(): Promise<void>;
 }
 
@@ -50,6 +54,10 @@ export async function createServices(config: Config, options: ServiceOptions = {
   const sessionStore = createSessionStore(db, config);
   await sessionStore.ready;
 
+  const storage = createLocalDiskStorage(config.media.dir);
+  // Uploads cut off by a crash or restart leave temporary files; clear the old ones.
+  void sweepIncoming(storage).catch((err: unknown) => logger.warn({ err }, 'could not sweep unfinished uploads'));
+
   return {
     db,
     logger,
@@ -57,6 +65,7 @@ export async function createServices(config: Config, options: ServiceOptions = {
     sessionStore,
     paymentProvider: createPaymentClient(config, options.fakePayments),
     fakeMailApiUrl: usingFake && config.env !== 'production' ? `http://${fake.host}:${fake.httpPort}` : undefined,
+    storage,
     async close() {
       await mail.stop();
       await db.destroy();

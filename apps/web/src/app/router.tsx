@@ -52,6 +52,26 @@ export function createAppRoutes(queryClient: QueryClient): RouteObject[] {
           }),
         },
 
+        // Agents joining a company that allows it, and e-mail links that work signed in or not.
+        {
+          path: paths.signUp.verify.path,
+          lazy: async () => ({ Component: (await import('@/features/account/routes/verify-sign-up')).VerifySignUpRoute }),
+        },
+        {
+          path: paths.signUp.form.path,
+          lazy: async () => ({ Component: (await import('@/features/account/routes/agent-sign-up')).AgentSignUpRoute }),
+        },
+        {
+          path: paths.confirmEmail.path,
+          lazy: async () => ({ Component: (await import('@/features/account/routes/confirm-email')).ConfirmEmailRoute }),
+        },
+
+        // A report opened through a share link: no account, so outside the signed-in layout.
+        {
+          path: paths.reports.shared.path,
+          lazy: async () => ({ Component: (await import('@/features/reports/routes/shared-report')).SharedReportRoute }),
+        },
+
         // Development and demo tool: open to anyone, so an invitee can click their link.
         {
           path: paths.mailbox.path,
@@ -65,20 +85,113 @@ export function createAppRoutes(queryClient: QueryClient): RouteObject[] {
           ErrorBoundary: SignedInErrorBoundary,
           loader: requireUserLoader(queryClient),
           children: [
+            // The area homes are the orders lists (the office queue, the inspector's day, the portal dashboard).
             {
               path: paths.office.home.path,
               loader: requireAreaLoader(queryClient, 'office'),
-              lazy: async () => ({ Component: (await import('@/features/office/routes/office-home')).OfficeHomeRoute }),
+              lazy: async () => ({ Component: (await import('@/features/orders/routes/office-queue')).OfficeQueueRoute }),
+            },
+            {
+              path: paths.office.orders.path,
+              loader: requireAreaLoader(queryClient, 'office'),
+              lazy: async () => ({ Component: (await import('@/features/orders/routes/office-orders')).OfficeOrdersRoute }),
+            },
+            {
+              path: paths.office.newOrder.path,
+              loader: requireAreaLoader(queryClient, 'office'),
+              lazy: async () => ({ Component: (await import('@/features/orders/routes/new-order')).NewOrderRoute }),
+            },
+            {
+              path: paths.office.order.path,
+              loader: requireAreaLoader(queryClient, 'office'),
+              lazy: async () => ({ Component: (await import('@/features/orders/routes/order-detail')).OrderDetailRoute }),
             },
             {
               path: paths.field.home.path,
               loader: requireAreaLoader(queryClient, 'field'),
-              lazy: async () => ({ Component: (await import('@/features/field/routes/field-home')).FieldHomeRoute }),
+              lazy: async () => ({ Component: (await import('@/features/orders/routes/field-day')).FieldDayRoute }),
+            },
+            {
+              path: paths.field.order.path,
+              loader: requireAreaLoader(queryClient, 'field'),
+              lazy: async () => ({ Component: (await import('@/features/orders/routes/order-detail')).OrderDetailRoute }),
             },
             {
               path: paths.portal.home.path,
               loader: requireAreaLoader(queryClient, 'portal'),
-              lazy: async () => ({ Component: (await import('@/features/portal/routes/portal-home')).PortalHomeRoute }),
+              lazy: async () => ({ Component: (await import('@/features/orders/routes/portal-home')).PortalHomeRoute }),
+            },
+            {
+              path: paths.portal.newOrder.path,
+              loader: requireAreaLoader(queryClient, 'portal'),
+              lazy: async () => ({ Component: (await import('@/features/orders/routes/new-order')).NewOrderRoute }),
+            },
+            {
+              path: paths.portal.order.path,
+              loader: requireAreaLoader(queryClient, 'portal'),
+              lazy: async () => ({ Component: (await import('@/features/orders/routes/order-detail')).OrderDetailRoute }),
+            },
+            // The office running the company: one lazy module per section.
+            {
+              path: paths.company.profile.path,
+              loader: requireAreaLoader(queryClient, 'office'),
+              lazy: async () => ({ Component: (await import('@/features/company/routes/company-profile')).CompanyProfileRoute }),
+            },
+            {
+              path: paths.company.people.path,
+              loader: requireAreaLoader(queryClient, 'office'),
+              lazy: async () => ({ Component: (await import('@/features/company/routes/people')).PeopleRoute }),
+            },
+            {
+              path: paths.company.fees.path,
+              loader: requireAreaLoader(queryClient, 'office'),
+              lazy: async () => ({ Component: (await import('@/features/company/routes/fee-list')).FeeListRoute }),
+            },
+            {
+              path: paths.company.priceBook.path,
+              loader: requireAreaLoader(queryClient, 'office'),
+              lazy: async () => ({ Component: (await import('@/features/company/routes/price-book')).PriceBookRoute }),
+            },
+            {
+              path: paths.company.settings.path,
+              loader: requireAreaLoader(queryClient, 'office'),
+              lazy: async () => ({ Component: (await import('@/features/company/routes/report-settings')).ReportSettingsRoute }),
+            },
+            {
+              path: paths.company.audit.path,
+              loader: requireAreaLoader(queryClient, 'office'),
+              lazy: async () => ({ Component: (await import('@/features/company/routes/audit-trail')).AuditTrailRoute }),
+            },
+            // Recording the line: the field app's editor, and the same screen in the office's area.
+            {
+              path: paths.inspection.field.path,
+              loader: requireAreaLoader(queryClient, 'field'),
+              lazy: async () => ({
+                Component: (await import('@/features/field-editor/routes/inspection-editor')).InspectionEditorRoute,
+              }),
+            },
+            {
+              path: paths.inspection.office.path,
+              loader: requireAreaLoader(queryClient, 'office'),
+              lazy: async () => ({
+                Component: (await import('@/features/field-editor/routes/inspection-editor')).InspectionEditorRoute,
+              }),
+            },
+            // Published reports: the reader's page in the portal; review, publish and the report for the company.
+            {
+              path: paths.reports.portal.path,
+              loader: requireAreaLoader(queryClient, 'portal'),
+              lazy: async () => ({ Component: (await import('@/features/reports/routes/report')).ReportRoute }),
+            },
+            {
+              path: paths.reports.office.path,
+              loader: requireAreaLoader(queryClient, 'office'),
+              lazy: async () => ({ Component: (await import('@/features/reports/routes/staff-report')).StaffReportRoute }),
+            },
+            {
+              path: paths.reports.field.path,
+              loader: requireAreaLoader(queryClient, 'field'),
+              lazy: async () => ({ Component: (await import('@/features/reports/routes/staff-report')).StaffReportRoute }),
             },
             {
               path: paths.account.path,

@@ -17,9 +17,58 @@ export const paths = {
     invitation: { path: '/invitation', getHref: (token?: string) => withQuery('/invitation', { token }) },
   },
 
-  office: { home: { path: '/office', getHref: () => '/office' } },
-  field: { home: { path: '/field', getHref: () => '/field' } },
-  portal: { home: { path: '/portal', getHref: () => '/portal' } },
+  office: {
+    home: { path: '/office', getHref: () => '/office' },
+    orders: { path: '/office/orders', getHref: () => '/office/orders' },
+    newOrder: { path: '/office/orders/new', getHref: () => '/office/orders/new' },
+    order: { path: '/office/orders/:orderId', getHref: (orderId: string) => `/office/orders/${encodeURIComponent(orderId)}` },
+  },
+  field: {
+    home: { path: '/field', getHref: (date?: string) => withQuery('/field', { date }) },
+    order: { path: '/field/orders/:orderId', getHref: (orderId: string) => `/field/orders/${encodeURIComponent(orderId)}` },
+  },
+  portal: {
+    home: { path: '/portal', getHref: () => '/portal' },
+    newOrder: { path: '/portal/orders/new', getHref: () => '/portal/orders/new' },
+    order: { path: '/portal/orders/:orderId', getHref: (orderId: string) => `/portal/orders/${encodeURIComponent(orderId)}` },
+  },
+
+  /** The office running the company (PRODUCT.md §10: price book, company settings, users). */
+  company: {
+    profile: { path: '/office/company', getHref: () => '/office/company' },
+    people: { path: '/office/company/people', getHref: () => '/office/company/people' },
+    fees: { path: '/office/company/fees', getHref: () => '/office/company/fees' },
+    priceBook: { path: '/office/company/price-book', getHref: () => '/office/company/price-book' },
+    settings: { path: '/office/company/settings', getHref: () => '/office/company/settings' },
+    audit: { path: '/office/company/audit', getHref: () => '/office/company/audit' },
+  },
+  /** Agents joining a company that allows it, and the link from their confirmation e-mail. */
+  signUp: {
+    form: { path: '/join/:companyId', getHref: (companyId: string) => `/join/${encodeURIComponent(companyId)}` },
+    verify: { path: '/join/verify', getHref: (token?: string) => withQuery('/join/verify', { token }) },
+  },
+  /** The link sent to a new e-mail address; it works signed in or not. */
+  confirmEmail: { path: '/account/confirm-email', getHref: (token?: string) => withQuery('/account/confirm-email', { token }) },
+
+  /** Recording the line of one order: the field app's editor; the office opens the same screen from its area. */
+  inspection: {
+    field: {
+      path: '/field/orders/:orderId/inspection',
+      getHref: (orderId: string) => `/field/orders/${encodeURIComponent(orderId)}/inspection`,
+    },
+    office: {
+      path: '/office/orders/:orderId/inspection',
+      getHref: (orderId: string) => `/office/orders/${encodeURIComponent(orderId)}/inspection`,
+    },
+  },
+
+  /** Published reports: the reader's page in each area (the office and field pages also hold the review), and guests' links. */
+  reports: {
+    portal: { path: '/portal/reports/:orderId', getHref: (orderId: string) => `/portal/reports/${encodeURIComponent(orderId)}` },
+    office: { path: '/office/reports/:orderId', getHref: (orderId: string) => `/office/reports/${encodeURIComponent(orderId)}` },
+    field: { path: '/field/reports/:orderId', getHref: (orderId: string) => `/field/reports/${encodeURIComponent(orderId)}` },
+    shared: { path: '/shared/:token', getHref: (token: string) => `/shared/${encodeURIComponent(token)}` },
+  },
 
   account: { path: '/account', getHref: () => '/account' },
   mailbox: { path: '/mailbox', getHref: (messageId?: string) => withQuery('/mailbox', { message: messageId }) },

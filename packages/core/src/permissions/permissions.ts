@@ -36,9 +36,9 @@ export interface OrderAccess {
   parties: readonly { userId: string; partyRole: PartyRole }[];
   /** Sides the published report has been released to: the ordering side once released, the other side after disclosure. */
   releasedTo: readonly Side[];
-  /** The report (if any) that belongs to this order. */
+  /** The report that belongs to this order, once a first revision is published (amendments keep it readable). */
   reportId: string | null;
-  /** True once a revision is published: inspection data is frozen from then on. */
+  /** True while the order stands published: inspection data is frozen (an amendment in progress reopens it). */
   published: boolean;
 }
 
@@ -147,7 +147,10 @@ const rules: Record<Exclude<Rule, 'thatReportOnly'>, (actor: UserActor, resource
   releasedToTheirSide: (a, r) => {
     const order = r.order;
     return (
-      !!order && sameCompany(a, order) && order.published && partyOf(a, order).some((p) => order.releasedTo.includes(sideOf(p.partyRole)))
+      !!order &&
+      sameCompany(a, order) &&
+      order.reportId !== null &&
+      partyOf(a, order).some((p) => order.releasedTo.includes(sideOf(p.partyRole)))
     );
   },
 };
@@ -157,13 +160,7 @@ export function can(actor: Actor | null | undefined, action: Action, resource: R
   if (!actor) return false;
   if (actor.kind === 'guest') {
     const rule = permissionTable[action].guest;
-    return (
-      rule === 'thatReportOnly' &&
-      !!resource.order &&
-      resource.order.published &&
-      resource.order.reportId !== null &&
-      resource.order.reportId === actor.reportId
-    );
+    return rule === 'thatReportOnly' && !!resource.order && resource.order.reportId !== null && resource.order.reportId === actor.reportId;
   }
   const rule = permissionTable[action][actor.role];
   if (rule === 'thatReportOnly') return false;

@@ -19,13 +19,21 @@ export interface OutboxMessage {
  */
 export async function enqueueMail<T extends MailTemplateName>(
   db: Knex,
-  message: { companyId: string | null; companyName: string; to: string; template: T; vars: MailVars<T> },
+  message: {
+    companyId: string | null;
+    companyName: string;
+    /** The company's logo (absolute URL), shown at the top when given. */
+    logoUrl?: string | null;
+    to: string;
+    template: T;
+    vars: MailVars<T>;
+  },
 ): Promise<void> {
   const render = mailTemplates[message.template] as (
-    ctx: { companyName: string },
+    ctx: { companyName: string; logoUrl?: string | null },
     vars: MailVars<T>,
   ) => ReturnType<(typeof mailTemplates)[T]>;
-  const rendered = render({ companyName: message.companyName }, message.vars);
+  const rendered = render({ companyName: message.companyName, logoUrl: message.logoUrl ?? null }, message.vars);
   const now = nowIso();
   await db('mail_outbox').insert({
     company_id: message.companyId,

@@ -11,6 +11,8 @@ export interface RenderedMail {
 
 interface MailContext {
   companyName: string;
+  /** The company's logo as an absolute URL, when it has one (shown above its name). */
+  logoUrl?: string | null | undefined;
 }
 
 const escapeHtml = (value: string) =>
@@ -37,7 +39,7 @@ function layout(ctx: MailContext, subject: string, block: Block): RenderedMail {
   const html = `<!doctype html><html><head><meta charset="utf-8"><title>${escapeHtml(subject)}</title></head>
 <body style="margin:0;background:#f7f3ec;color:#1f2a33;font-family:Inter,Arial,sans-serif;font-size:16px">
 <div style="max-width:560px;margin:0 auto;padding:32px 20px">
-<p style="margin:0 0 24px;font-weight:700;color:#a5492c;letter-spacing:0.02em">${escapeHtml(ctx.companyName)}</p>
+${ctx.logoUrl ? `<p style="margin:0 0 8px"><img src="${escapeHtml(ctx.logoUrl)}" alt="" style="display:block;max-height:56px;max-width:240px;height:auto;width:auto;border:0"></p>\n` : ''}<p style="margin:0 0 24px;font-weight:700;color:#a5492c;letter-spacing:0.02em">${escapeHtml(ctx.companyName)}</p>
 ${para(block.greeting)}
 ${block.paragraphs.map(para).join('\n')}
 ${button}
@@ -144,6 +146,95 @@ export const mailTemplates = {
         `${ctx.companyName} has refunded ${v.amountText} to the card you paid with. Banks usually show it within 5 to 10 business days.`,
       ],
       action: { label: 'View the order', url: v.url },
+    }),
+
+  agent_sign_up: (ctx: MailContext, v: { name: string; url: string; validHours: number }) =>
+    layout(ctx, `Confirm your e-mail to join ${ctx.companyName} on Underfoot`, {
+      greeting: `Hello ${v.name},`,
+      paragraphs: [
+        `You asked to join ${ctx.companyName} on Underfoot as an agent, to order sewer line inspections and read their reports.`,
+        `Confirm this e-mail address and choose a password with the link below. The link works for ${v.validHours} hours.`,
+      ],
+      action: { label: 'Confirm and choose a password', url: v.url },
+      after: ['If you did not ask for this, ignore this e-mail; nothing happens without the link.'],
+    }),
+
+  sign_up_existing: (ctx: MailContext, v: { name: string; signInUrl: string; resetUrl: string }) =>
+    layout(ctx, 'You already have an Underfoot account', {
+      greeting: `Hello ${v.name},`,
+      paragraphs: [
+        `Someone asked to sign up for ${ctx.companyName} on Underfoot with this e-mail address, which already has an account.`,
+        'Sign in with your password. If you have forgotten it, you can reset it from the sign-in page.',
+      ],
+      action: { label: 'Sign in', url: v.signInUrl },
+      after: [`Reset your password: ${v.resetUrl}`, 'If it was not you, you can ignore this e-mail; nothing has changed.'],
+    }),
+
+  email_change_confirm: (ctx: MailContext, v: { name: string; url: string; validHours: number }) =>
+    layout(ctx, 'Confirm your new e-mail address for Underfoot', {
+      greeting: `Hello ${v.name},`,
+      paragraphs: [
+        'You asked to sign in to Underfoot with this e-mail address from now on.',
+        `Confirm it with the link below. Until you do, your old address stays in use. The link works for ${v.validHours} hours.`,
+      ],
+      action: { label: 'Confirm my new address', url: v.url },
+      after: ['If you did not ask for this, ignore this e-mail.'],
+    }),
+
+  email_change_requested: (ctx: MailContext, v: { name: string; newEmail: string }) =>
+    layout(ctx, 'Your Underfoot sign-in address is about to change', {
+      greeting: `Hello ${v.name},`,
+      paragraphs: [
+        `Someone signed in to your account asked to change its e-mail address to ${v.newEmail}. We sent a confirmation link there; nothing changes until it is followed.`,
+        `If this was not you, change your password now and tell ${ctx.companyName}.`,
+      ],
+    }),
+
+  email_changed: (ctx: MailContext, v: { name: string; newEmail: string }) =>
+    layout(ctx, 'Your Underfoot sign-in address has changed', {
+      greeting: `Hello ${v.name},`,
+      paragraphs: [
+        `Your account now signs in with ${v.newEmail}. Mail from Underfoot will go there from now on.`,
+        `If this was not you, contact ${ctx.companyName} straight away.`,
+      ],
+    }),
+
+  password_changed: (ctx: MailContext, v: { name: string; otherSessionsEnded: number }) =>
+    layout(ctx, 'Your Underfoot password has changed', {
+      greeting: `Hello ${v.name},`,
+      paragraphs: [
+        `The password for your account was just changed${v.otherSessionsEnded > 0 ? ', and your other signed-in devices were signed out' : ''}.`,
+        `If this was not you, reset your password from the sign-in page and tell ${ctx.companyName}.`,
+      ],
+    }),
+
+  report_released: (ctx: MailContext, v: { name: string; url: string; address: string; revised: boolean }) =>
+    layout(ctx, `${v.revised ? 'Updated report' : 'Your sewer line report is ready'}: ${v.address}`, {
+      greeting: `Hello ${v.name},`,
+      paragraphs: [
+        v.revised
+          ? `${ctx.companyName} has published an updated sewer line report for ${v.address}. The report page shows what changed.`
+          : `${ctx.companyName} has finished the sewer line inspection for ${v.address}. The report shows the condition grade, where any problems are, what to do about them and a rough cost range.`,
+        'You can read it on your phone, ask the inspector a question and download a PDF.',
+      ],
+      action: { label: 'Read the report', url: v.url },
+    }),
+
+  report_question: (ctx: MailContext, v: { name: string; url: string; address: string; askerName: string; question: string }) =>
+    layout(ctx, `Question about the report for ${v.address}`, {
+      greeting: `Hello ${v.name},`,
+      paragraphs: [`${v.askerName} asked a question about the sewer line report for ${v.address}:`, `“${v.question}”`],
+      action: { label: 'Answer in Underfoot', url: v.url },
+    }),
+
+  report_answer: (
+    ctx: MailContext,
+    v: { name: string; url: string; address: string; answererName: string; question: string; answer: string },
+  ) =>
+    layout(ctx, `Answer about the report for ${v.address}`, {
+      greeting: `Hello ${v.name},`,
+      paragraphs: [`Question: “${v.question}”`, `${v.answererName} answered: “${v.answer}”`],
+      action: { label: 'See it on the report', url: v.url },
     }),
 } satisfies Record<string, (ctx: MailContext, vars: never) => RenderedMail>;
 

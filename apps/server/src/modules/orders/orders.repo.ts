@@ -19,6 +19,9 @@ export interface OrderRow {
   window_end: string | null;
   note: string;
   cancel_reason: string | null;
+  /** JSON list of the sides the published report is released to. */
+  released_to: string;
+  release_held: number | boolean;
   created_by: string | null;
   created_at: string;
   updated_at: string;
@@ -60,9 +63,9 @@ export async function loadOrderAccess(db: Knex, order: OrderRow): Promise<OrderA
     assignedInspectorId: order.assigned_inspector_id,
     orderingSide: order.ordering_side,
     parties: parties.map((p) => ({ userId: p.user_id, partyRole: p.party_role })),
-    // Reports arrive with the review issue; until then nothing is released.
-    releasedTo: [],
-    reportId: null,
+    releasedTo: JSON.parse(order.released_to || '[]') as Side[],
+    // The report is the order's: it exists once a first revision is published.
+    reportId: (await db('report_revisions').where({ order_id: order.id }).first('id')) ? order.id : null,
     published: order.status === 'published',
   };
 }
@@ -149,6 +152,7 @@ export async function listOrders(db: Knex, filter: OrderListFilter) {
       'properties.postal_code',
       'properties.year_built',
       'properties.property_type',
+      'properties.access_notes',
       'inspectors.name as inspector_name',
     )
     .orderBy([

@@ -60,6 +60,10 @@ export function ordersRouter(db: Knex, orders: OrdersService): Router {
     res.json({ order: await orders.cancel(currentUser(req), String(req.params.id), reason, req.ip) });
   });
 
+  router.post('/orders/:id/recorded', requireSignIn, async (req, res) => {
+    res.json({ order: await orders.markRecorded(currentUser(req), String(req.params.id), req.ip) });
+  });
+
   router.get('/inspectors', requireSignIn, async (req, res) => {
     res.json({ inspectors: await orders.listInspectors(currentUser(req)) });
   });

@@ -4,11 +4,13 @@ import {
   daysUntil,
   formatAddress,
   formatMoney,
+  gradeInfo,
   orderingSideOf,
   orderKindLabels,
   partyRoleLabels,
   todayIso,
   type Actor,
+  type GradeLevel,
   type OrderCreate,
   type OrderStatus,
   type PartyRole,
@@ -230,6 +232,12 @@ export function createOrdersService(deps: OrdersServiceDeps) {
     return getOrder(actor, orderId);
   }
 
+  /** The latest published revision's grade and number, and whether payment holds it. */
+  async function reportSummary(orderId: string, order: OrderRow) {
+    const latest = await db('report_revisions').where({ order_id: orderId }).orderBy('number', 'desc').first('number', 'grade');
+    return latest ? { revision: latest.number as number, grade: latest.grade as string, releaseHeld: Boolean(order.release_held) } : null;
+  }
+
   async function getOrder(actor: UserRecord, id: string) {
     const { order, access } = await visibleOrder(actor, id);
     const property = await db('properties').where({ id: order.property_id }).first();
@@ -287,12 +295,47 @@ export function createOrdersService(deps: OrdersServiceDeps) {
         ? { status: payment.status as string, amountCents: payment.amount_cents as number, updatedAt: payment.updated_at as string }
         : null,
       yourPartyRoles: parties.filter((p) => p.userId === actor.id).map((p) => p.partyRole),
+      // The published report, for those who may read it (reports module); null otherwise.
+      report: can(actorAsCore, 'report.read', { order: access }) ? await reportSummary(id, order) : null,
       allowed: {
         schedule: can(actorAsCore, 'order.schedule', { order: access }) && (order.status === 'requested' || order.status === 'scheduled'),
         cancel: can(actorAsCore, 'order.cancel', { order: access }) && (order.status === 'requested' || order.status === 'scheduled'),
         pay: can(actorAsCore, 'order.pay', { order: access }) && order.payment_state === 'unpaid' && order.status !== 'cancelled',
+        recordInspection:
+          can(actorAsCore, 'inspection.edit', { order: access }) && ['scheduled', 'recorded', 'in_review'].includes(order.status),
+        finishRecording: can(actorAsCore, 'inspection.edit', { order: access }) && order.status === 'scheduled',
       },
     };
+  }
+
+  /** Latest published grade names of the listed orders that this person may read. */
+  async function readableGrades(actor: UserRecord, rows: OrderRow[]): Promise<Map<string, string>> {
+    const ids = rows.map((r) => r.id);
+    if (ids.length === 0) return new Map();
+    const revisions = await db('report_revisions').whereIn('order_id', ids).orderBy('number').select('order_id', 'grade');
+    const latest = new Map<string, string>(revisions.map((r) => [r.order_id as string, r.grade as string]));
+    const partyRows = await db('order_parties')
+      .whereIn('order_id', [...latest.keys()])
+      .select('order_id', 'user_id', 'party_role');
+    const grades = new Map<string, string>();
+    for (const row of rows) {
+      const grade = latest.get(row.id);
+      if (!grade) continue;
+      const access = {
+        companyId: row.company_id,
+        status: row.status,
+        assignedInspectorId: row.assigned_inspector_id,
+        orderingSide: row.ordering_side,
+        parties: partyRows
+          .filter((p) => p.order_id === row.id)
+          .map((p) => ({ userId: p.user_id as string, partyRole: p.party_role as PartyRole })),
+        releasedTo: JSON.parse(row.released_to || '[]'),
+        reportId: row.id,
+        published: row.status === 'published',
+      };
+      if (can(actorOf(actor), 'report.read', { order: access })) grades.set(row.id, gradeInfo[grade as GradeLevel]?.name ?? grade);
+    }
+    return grades;
   }
 
   async function list(actor: UserRecord, query: Omit<OrderListFilter, 'companyId' | 'partyUserId' | 'inspectorId'>) {
@@ -302,6 +345,7 @@ export function createOrdersService(deps: OrdersServiceDeps) {
     const company = await companyOf(actor.companyId);
     const today = todayIso(new Date(), company.time_zone);
     const { rows, total } = await listOrders(db, filter);
+    const gradeOf = await readableGrades(actor, rows as OrderRow[]);
     return {
       total,
       orders: rows.map((r) => ({
@@ -317,12 +361,14 @@ export function createOrdersService(deps: OrdersServiceDeps) {
         payer: r.payer,
         feeTotalCents: r.fee_total_cents as number,
         inspectorName: (r.inspector_name as string | null) ?? null,
+        accessNotes: r.access_notes as string,
+        preferredDates: JSON.parse(r.preferred_dates as string) as string[],
         window: r.window_date
           ? { date: r.window_date as string, startTime: r.window_start as string, endTime: r.window_end as string }
           : null,
         createdAt: r.created_at as string,
-        // The grade appears here once reports are published (review issue).
-        grade: null,
+        // The published grade, for those who may read the report (PRODUCT.md §10).
+        grade: gradeOf.get(r.id as string) ?? null,
       })),
     };
   }
@@ -452,6 +498,31 @@ export function createOrdersService(deps: OrdersServiceDeps) {
     return getOrder(actor, id);
   }
 
+  /** The inspector (or office) says the camera work is done: scheduled → recorded, ready for review. */
+  async function markRecorded(actor: UserRecord, id: string, ip?: string) {
+    const { order, access } = await visibleOrder(actor, id);
+    if (!can(actorOf(actor), 'inspection.edit', { order: access }))
+      throw forbidden('Only the assigned inspector or the office can finish the recording.');
+    if (order.status !== 'scheduled')
+      throw conflict(`This order is ${order.status.replace('_', ' ')}; only a scheduled visit can be marked recorded.`, 'wrong_status');
+    const inspection = await db('inspections').where({ order_id: id }).first('document');
+    const runs = inspection ? ((JSON.parse(inspection.document) as { runs?: unknown[] }).runs ?? []) : [];
+    if (runs.length === 0) throw conflict('Record at least one run before finishing.', 'no_runs');
+    await db.transaction(async (trx) => {
+      await trx('orders').where({ id, status: 'scheduled' }).update({ status: 'recorded', updated_at: nowIso() });
+      await addOrderEvent(trx, { orderId: id, actorUserId: actor.id, type: 'recorded', detail: { runs: runs.length } });
+      await recordAudit(trx, {
+        companyId: order.company_id,
+        actorUserId: actor.id,
+        action: 'order.recorded',
+        subjectType: 'order',
+        subjectId: id,
+        ip,
+      });
+    });
+    return getOrder(actor, id);
+  }
+
   async function listInspectors(actor: UserRecord) {
     if (actor.role !== 'office') throw forbidden();
     const rows = await db('users')
@@ -463,7 +534,7 @@ export function createOrdersService(deps: OrdersServiceDeps) {
     return rows.map((r) => ({ id: r.id as string, name: r.name as string }));
   }
 
-  return { createOrder, getOrder, list, schedule, cancel, listInspectors, visibleOrder };
+  return { createOrder, getOrder, list, schedule, cancel, markRecorded, listInspectors, visibleOrder };
 }
 
 export type OrdersService = ReturnType<typeof createOrdersService>;

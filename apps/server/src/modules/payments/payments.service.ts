@@ -16,6 +16,8 @@ export interface PaymentsServiceDeps {
   publicUrl: string;
   mailQueued: () => void;
   log: { warn(obj: object, msg: string): void };
+  /** Called inside the payment's transaction once an order is paid (releases a report held for payment). */
+  onPaid?: (trx: Knex.Transaction, orderId: string) => Promise<unknown>;
 }
 
 const providerDown = () =>
@@ -188,6 +190,7 @@ export function createPaymentsService(deps: PaymentsServiceDeps) {
       type: 'paid',
       detail: { amountCents: payment.amount_cents },
     });
+    await deps.onPaid?.(trx, payment.order_id);
 
     const order = (await findOrderRow(trx, payment.order_id))!;
     const payer = payment.created_by ? await trx('users').where({ id: payment.created_by }).first() : undefined;

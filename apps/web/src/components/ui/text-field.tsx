@@ -1,5 +1,6 @@
-import { useId, useState, type ComponentProps, type ReactNode } from 'react';
+import { useState, type ComponentProps, type ReactNode } from 'react';
 import { cn } from '@/lib/cn';
+import { FieldError, useFieldIds } from './field-error';
 
 export interface TextFieldProps extends Omit<ComponentProps<'input'>, 'id'> {
   label: ReactNode;
@@ -18,11 +19,7 @@ export const inputClasses =
   'disabled:bg-sand disabled:text-ink-muted';
 
 export function TextField({ label, error, hint, id, trailing, className, ...inputProps }: TextFieldProps) {
-  const autoId = useId();
-  const inputId = id ?? autoId;
-  const hintId = hint ? `${inputId}-hint` : undefined;
-  const errorId = error ? `${inputId}-error` : undefined;
-  const describedBy = [hintId, errorId].filter(Boolean).join(' ') || undefined;
+  const { id: inputId, hintId, errorId, describedBy } = useFieldIds(hint, error, id);
 
   return (
     <div className={cn('space-y-1.5', className)}>
@@ -44,17 +41,13 @@ export function TextField({ label, error, hint, id, trailing, className, ...inpu
         />
         {trailing ? <div className="absolute inset-y-0 right-1 flex items-center">{trailing}</div> : null}
       </div>
-      {error ? (
-        <p id={errorId} className="flex items-start gap-1.5 text-sm font-medium text-danger">
-          <svg aria-hidden="true" viewBox="0 0 20 20" className="mt-0.5 size-4 shrink-0" fill="currentColor">
-            <path d="M10 2a8 8 0 1 0 0 16 8 8 0 0 0 0-16Zm-.75 4h1.5v5.5h-1.5V6Zm.75 8.75a1 1 0 1 1 0-2 1 1 0 0 1 0 2Z" />
-          </svg>
-          <span>{error}</span>
-        </p>
-      ) : null}
+      <FieldError id={errorId} message={error} />
     </div>
   );
 }
+
+/** The rule for a new password, said the same way on every form that sets one. */
+export const passwordHint = 'At least 10 characters. A few unrelated words make a strong password that is easy to remember.';
 
 /** A password input with a show/hide switch instead of a "repeat password" box. */
 export function PasswordField(props: Omit<TextFieldProps, 'type' | 'trailing'>) {

@@ -6,7 +6,7 @@ import { Link } from 'react-router-dom';
 import type { z } from 'zod';
 import { Button } from '@/components/ui/button';
 import { FormAlert } from '@/components/ui/form-alert';
-import { PasswordField } from '@/components/ui/text-field';
+import { PasswordField, passwordHint } from '@/components/ui/text-field';
 import { paths } from '@/config/paths';
 import { isApiError } from '@/lib/api-client';
 import { applyServerFieldErrors } from '@/lib/forms';
@@ -16,8 +16,6 @@ import { useCompletePasswordReset } from '../api';
 const schema = passwordResetCompleteSchema.pick({ password: true });
 type Values = z.input<typeof schema>;
 type Parsed = z.output<typeof schema>;
-
-export const passwordHint = 'At least 10 characters. A few unrelated words make a strong password that is easy to remember.';
 
 export function ResetPasswordForm({ token, onDone }: { token: string; onDone: (user: CurrentUser) => void }) {
   const form = useForm<Values, unknown, Parsed>({ resolver: zodResolver(schema), defaultValues: { password: '' } });

@@ -1,0 +1,126 @@
+import { useEffect, useId, useRef, type ReactNode } from 'react';
+import { Button } from './button';
+
+/**
+ * The browser's own <dialog>, shown as a modal while `open`: it traps focus,
+ * Escape cancels (the caller decides what that means) and focus returns to the
+ * button that opened it. `width` is a Tailwind width class.
+ */
+function Modal({
+  open,
+  labelledBy,
+  width,
+  onCancel,
+  onClose,
+  children,
+}: {
+  open: boolean;
+  labelledBy: string;
+  width: string;
+  onCancel: () => void;
+  onClose?: () => void;
+  children: ReactNode;
+}) {
+  const ref = useRef<HTMLDialogElement>(null);
+
+  useEffect(() => {
+    const dialog = ref.current;
+    if (!dialog) return;
+    if (open && !dialog.open) {
+      // jsdom has no showModal; there the dialog simply opens in place.
+      if (typeof dialog.showModal === 'function') dialog.showModal();
+      else dialog.setAttribute('open', '');
+    } else if (!open && dialog.open) {
+      if (typeof dialog.close === 'function') dialog.close();
+      else dialog.removeAttribute('open');
+    }
+  }, [open]);
+
+  return (
+    <dialog
+      ref={ref}
+      aria-labelledby={labelledBy}
+      onClose={onClose}
+      onCancel={(e) => {
+        e.preventDefault();
+        onCancel();
+      }}
+      className={`m-auto ${width} rounded-card border border-line bg-sheet p-0 text-ink shadow-sheet backdrop:bg-ink/40`}
+    >
+      {children}
+    </dialog>
+  );
+}
+
+/** A modal with a title, an optional line under it, and whatever form or text it holds. */
+export function Dialog({
+  open,
+  onClose,
+  title,
+  description,
+  children,
+}: {
+  open: boolean;
+  onClose: () => void;
+  title: string;
+  description?: ReactNode;
+  children: ReactNode;
+}) {
+  const titleId = useId();
+  return (
+    <Modal open={open} labelledBy={titleId} width="w-[min(32rem,calc(100vw-2rem))]" onCancel={onClose} onClose={onClose}>
+      {open ? (
+        <div className="p-5 sm:p-6">
+          <h2 id={titleId} className="text-lg font-semibold">
+            {title}
+          </h2>
+          {description ? <div className="mt-1 text-sm text-ink-muted">{description}</div> : null}
+          <div className="mt-4">{children}</div>
+        </div>
+      ) : null}
+    </Modal>
+  );
+}
+
+/** Asks before a step that is hard to undo (disabling an account); Escape and "Keep as it is" cancel. */
+export function ConfirmDialog({
+  open,
+  title,
+  children,
+  confirmLabel,
+  tone = 'danger',
+  pending,
+  onConfirm,
+  onCancel,
+}: {
+  open: boolean;
+  title: string;
+  children: ReactNode;
+  confirmLabel: string;
+  tone?: 'danger' | 'primary';
+  pending?: boolean;
+  onConfirm: () => void;
+  onCancel: () => void;
+}) {
+  const titleId = useId();
+  return (
+    <Modal open={open} labelledBy={titleId} width="w-[min(30rem,calc(100vw-2rem))]" onCancel={onCancel}>
+      {open ? (
+        <div className="space-y-4 p-5 sm:p-6">
+          <h2 id={titleId} className="text-lg font-semibold">
+            {title}
+          </h2>
+          <div className="space-y-2 text-ink-muted">{children}</div>
+          <div className="flex flex-wrap justify-end gap-2">
+            <Button variant="secondary" onClick={onCancel}>
+              Keep as it is
+            </Button>
+            <Button variant={tone} onClick={onConfirm} pending={pending}>
+              {confirmLabel}
+            </Button>
+          </div>
+        </div>
+      ) : null}
+    </Modal>
+  );
+}

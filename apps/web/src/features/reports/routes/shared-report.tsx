@@ -1,0 +1,56 @@
+import { useQuery } from '@tanstack/react-query';
+import { useParams } from 'react-router-dom';
+import { ErrorPage } from '@/components/errors/error-page';
+import { SimpleLayout } from '@/components/layout/simple-layout';
+import { Alert } from '@/components/ui/alert';
+import { Button } from '@/components/ui/button';
+import { SectionLoading } from '@/components/ui/spinner';
+import { errorMessage, isApiError } from '@/lib/api-client';
+import { formatDateTime } from '@/lib/format';
+import { useDocumentTitle } from '@/lib/use-document-title';
+import { sharedMedia, sharedPdfHref, sharedReportQueryOptions } from '../api';
+import { ReportDocument } from '../components/report-document';
+import { PdfButton } from '../components/pdf-button';
+
+/** A report opened through a share link: read-only, no account, outside the signed-in area. */
+export function SharedReportRoute() {
+  const { token = '' } = useParams();
+  const report = useQuery(sharedReportQueryOptions(token));
+  useDocumentTitle(report.data ? `Report · ${report.data.revision.snapshot.property.address.split(',')[0]}` : 'Shared report');
+
+  let content;
+  if (report.isPending) content = <SectionLoading label="Opening the report…" />;
+  else if (report.isError) {
+    content = isApiError(report.error, 404) ? (
+      <ErrorPage eyebrow="Link not working" title="This link does not open a report">
+        <p>It may have expired or been withdrawn, or part of it is missing. Ask the person who sent it to you for a new link.</p>
+      </ErrorPage>
+    ) : (
+      <Alert tone="danger" title="The report could not be loaded">
+        <p>{errorMessage(report.error)}</p>
+        <Button size="sm" variant="secondary" className="mt-2" onClick={() => void report.refetch()}>
+          Try again
+        </Button>
+      </Alert>
+    );
+  } else {
+    const data = report.data;
+    content = (
+      <ReportDocument
+        revision={data.revision}
+        changes={data.changes}
+        readerSide={null}
+        media={sharedMedia(token)}
+        headerActions={<PdfButton href={sharedPdfHref(token)} />}
+        notice={
+          <p className="rounded-lg border border-line bg-sand/60 px-3.5 py-2.5 text-sm text-ink-muted">
+            {data.purpose === 'disclosure'
+              ? 'The seller shares this report with prospective buyers. It is read-only.'
+              : `Shared with you to read. ${data.expiresAt ? `This link works until ${formatDateTime(data.expiresAt)}.` : ''}`}
+          </p>
+        }
+      />
+    );
+  }
+  return <SimpleLayout>{content}</SimpleLayout>;
+}
