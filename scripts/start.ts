@@ -58,7 +58,10 @@ async function main() {
     ...(fakeMail ? { fakeMail: { host: fakeMail.host, smtpPort: fakeMail.smtpPort, httpPort: fakeMail.httpPort } } : {}),
     ...(fakePayments ? { fakePayments: { host: fakePayments.host, port: fakePayments.port } } : {}),
   });
-  const { seeded } = await seedDemo(services.db, { passwordHashCost: config.passwordHashCost, mediaDir: config.media.dir });
+  const { seeded, disclosureLinkPath } = await seedDemo(services.db, {
+    passwordHashCost: config.passwordHashCost,
+    mediaDir: config.media.dir,
+  });
   const app = createApp(config, services);
 
   const server: Server = app.listen(config.port, config.host);
@@ -77,6 +80,7 @@ async function main() {
       fakePayments
         ? `  Payments go to a local test provider (no real money): ${fakePayments.url}`
         : '  Payments go to the configured provider',
+      disclosureLinkPath ? `  Pre-listing disclosure link (anyone can open it): ${config.publicUrl}${disclosureLinkPath}` : '',
       `  Data folder: ${config.dataDir}${seeded ? ' (demo data added)' : ''}`,
       '',
       `  Demo accounts — every one uses the password: ${DEMO_PASSWORD}`,

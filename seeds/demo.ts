@@ -3,6 +3,7 @@ import type { Role } from '@underfoot/core';
 import { hashPassword } from '@underfoot/server';
 import { seedDemoInspections } from './inspections.ts';
 import { seedDemoOrders } from './orders.ts';
+import { seedDemoReports } from './reports.ts';
 
 /**
  * The invented demo scenario: a sewer-camera company in the made-up town of
@@ -92,9 +93,12 @@ export const demoAccounts: DemoAccount[] = [
 ];
 
 /** Seed the demo once; running it again on a seeded database changes nothing. */
-export async function seedDemo(db: Knex, options: { passwordHashCost: number; mediaDir: string }): Promise<{ seeded: boolean }> {
+export async function seedDemo(
+  db: Knex,
+  options: { passwordHashCost: number; mediaDir: string },
+): Promise<{ seeded: boolean; disclosureLinkPath: string | null }> {
   const existing = await db('companies').where({ id: demoCompany.id }).first();
-  if (existing) return { seeded: false };
+  if (existing) return { seeded: false, disclosureLinkPath: null };
   const passwordHash = await hashPassword(DEMO_PASSWORD, options.passwordHashCost);
   const now = new Date().toISOString();
   await db.transaction(async (trx) => {
@@ -125,5 +129,6 @@ export async function seedDemo(db: Knex, options: { passwordHashCost: number; me
   });
   await seedDemoOrders(db);
   await seedDemoInspections(db, { mediaDir: options.mediaDir });
-  return { seeded: true };
+  const { disclosureLinkPath } = await seedDemoReports(db, { mediaDir: options.mediaDir });
+  return { seeded: true, disclosureLinkPath };
 }

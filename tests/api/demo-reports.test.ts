@@ -7,8 +7,9 @@ import { createTestContext, type TestContext } from '../support/test-app.ts';
 let ctx: TestContext;
 beforeAll(async () => {
   ctx = await createTestContext();
-  await seedDemo(ctx.services.db, { passwordHashCost: 10, mediaDir: ctx.config.media.dir });
+  seededByDemo = await seedDemo(ctx.services.db, { passwordHashCost: 10, mediaDir: ctx.config.media.dir });
 }, 120_000);
+let seededByDemo: Awaited<ReturnType<typeof seedDemo>>;
 afterAll(() => ctx.close());
 
 describe('the demo reports', () => {
@@ -17,8 +18,8 @@ describe('the demo reports', () => {
     { timeout: 120_000 },
     async () => {
       const { db } = ctx.services;
-      const first = await seedDemoReports(db, { mediaDir: ctx.config.media.dir, publicUrl: ctx.config.publicUrl });
-      expect(first.seeded).toBe(6);
+      // seedDemo published them and handed back the disclosure link; a second run adds nothing.
+      expect(seededByDemo.disclosureLinkPath).toMatch(/^\/shared\//);
       expect((await seedDemoReports(db, { mediaDir: ctx.config.media.dir })).seeded).toBe(0);
 
       const revisions = await db('report_revisions').select('order_id', 'number', 'kind', 'grade');
@@ -34,14 +35,14 @@ describe('the demo reports', () => {
       expect(preListing).toHaveLength(1);
       expect(JSON.parse(preListing[0].released_to)).toEqual(['buyer', 'seller']);
       // The disclosure link opens the report for anyone, with the marked-up stills.
-      expect(first.disclosureLinkPath).toMatch(/^\/shared\//);
-      const shared = await request(ctx.app).get(`/api${first.disclosureLinkPath}`).expect(200);
+      expect(seededByDemo.disclosureLinkPath).toMatch(/^\/shared\//);
+      const shared = await request(ctx.app).get(`/api${seededByDemo.disclosureLinkPath}`).expect(200);
       expect(shared.body.purpose).toBe('disclosure');
       const still = shared.body.revision.snapshot.media.find((m: { renderedId: string | null }) => m.renderedId);
-      await request(ctx.app).get(`/api${first.disclosureLinkPath}/media/${still.renderedId}/file`).expect(200);
+      await request(ctx.app).get(`/api${seededByDemo.disclosureLinkPath}/media/${still.renderedId}/file`).expect(200);
       // Its PDF carries the slope and pipe notes too (the line has depth readings and early-failure pipe).
       const pdf = await request(ctx.app)
-        .get(`/api${first.disclosureLinkPath}/pdf`)
+        .get(`/api${seededByDemo.disclosureLinkPath}/pdf`)
         .buffer(true)
         .parse((res, callback) => {
           const chunks: Buffer[] = [];

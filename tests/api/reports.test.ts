@@ -534,3 +534,28 @@ describe('amendments and re-inspections', () => {
     expect(await db()('audit_log').where({ subject_id: orderId, action: 'report.amended' })).toHaveLength(1);
   });
 });
+
+describe('files a published revision shows', () => {
+  it('survive an amendment: new markup keeps the old rendered copy, and deleting the still is refused', async () => {
+    const { orderId, stillId } = await publishedOrder();
+    expect((await (await office()).post(`/api/orders/${orderId}/reopen`)).status).toBe(204);
+    const field = await inspector();
+    const before = await db()('media').where({ source_media_id: stillId, kind: 'rendered' });
+    expect(before).toHaveLength(1);
+    const remarked = await put(field, `/api/media/${stillId}/markup`, {
+      baseVersion: 1,
+      markup: { shapes: [{ id: 'm2', type: 'box', colour: 'sun', x: 0.2, y: 0.2, w: 0.3, h: 0.3 }] },
+    });
+    expect(remarked.status, JSON.stringify(remarked.body)).toBe(200);
+    const after = await db()('media').where({ source_media_id: stillId, kind: 'rendered' });
+    expect(after.map((r) => r.id)).toContain(before[0].id);
+    expect(after).toHaveLength(2);
+    // Revision 1 still serves its rendered copy.
+    const oldCopy = await binary(await buyer(), `/api/media/${before[0].id}/file`);
+    expect(oldCopy.status).toBe(200);
+
+    const removed = await field.agent.delete(`/api/media/${stillId}`).set('x-csrf-token', field.token);
+    expect(removed.status).toBe(409);
+    expect(removed.body.code).toBe('in_published_revision');
+  });
+});

@@ -92,7 +92,8 @@ export async function findMedia(db: Knex, id: string): Promise<MediaRow | undefi
 }
 
 export async function findRenderedFor(db: Knex, stillId: string): Promise<MediaRow | undefined> {
-  return db<MediaRow>('media').where({ source_media_id: stillId, kind: 'rendered' }).first();
+  // Older rendered copies may be kept for published revisions: the newest is the current one.
+  return db<MediaRow>('media').where({ source_media_id: stillId, kind: 'rendered' }).orderBy('created_at', 'desc').first();
 }
 
 /** Videos and stills of an order, oldest first, each still with its rendered copy. */

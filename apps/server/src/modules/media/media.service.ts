@@ -287,7 +287,8 @@ export function createMediaService(deps: { db: Knex; storage: MediaStorage; limi
         .where({ id: row.id, markup_version: input.baseVersion })
         .update({ markup: JSON.stringify(input.markup), markup_version: input.baseVersion + 1, updated_at: now });
       if (Number(updated) !== 1) return false;
-      if (oldRendered) await trx('media').where({ id: oldRendered.id }).delete();
+      // A rendered copy a published revision shows stays, so that revision keeps its picture.
+      if (oldRendered && !(await inPublishedRevision(trx, oldRendered))) await trx('media').where({ id: oldRendered.id }).delete();
       if (newRendered) await trx('media').insert(newRendered);
       return true;
     });
@@ -295,7 +296,7 @@ export function createMediaService(deps: { db: Knex; storage: MediaStorage; limi
       if (newRendered) await storage.delete(newRendered.storage_key);
       throw new HttpError(409, 'version_conflict', 'Someone else changed the markup on this still. Reload it to see their version.');
     }
-    if (oldRendered) await storage.delete(oldRendered.storage_key);
+    if (oldRendered && !(await inPublishedRevision(db, oldRendered))) await storage.delete(oldRendered.storage_key);
     return getMedia(user, row.id);
   }
 
@@ -305,6 +306,13 @@ export function createMediaService(deps: { db: Knex; storage: MediaStorage; limi
     if (!row || row.kind === 'rendered') throw notFound('file');
     await editableOrder(db, user, row.order_id, 'file');
     const rendered = await findRenderedFor(db, row.id);
+    if ((await inPublishedRevision(db, row)) || (rendered && (await inPublishedRevision(db, rendered)))) {
+      throw new HttpError(
+        409,
+        'in_published_revision',
+        'A published revision of this report shows this file, so it stays. Take it off the finding instead; the next revision will not show it.',
+      );
+    }
     await db('media')
       .whereIn('id', [row.id, ...(rendered ? [rendered.id] : [])])
       .delete();
@@ -313,6 +321,15 @@ export function createMediaService(deps: { db: Knex; storage: MediaStorage; limi
   }
 
   return { uploadVideo, uploadStill, openForRead, getMedia, saveMarkup, deleteMedia, limits };
+}
+
+/** Whether a published revision of the order names this file (snapshots are JSON text holding the ids). */
+async function inPublishedRevision(db: Knex, row: Pick<MediaRow, 'id' | 'order_id'>): Promise<boolean> {
+  const hit = await db('report_revisions')
+    .where({ order_id: row.order_id })
+    .whereRaw('snapshot like ?', [`%"${row.id}"%`])
+    .first('id');
+  return Boolean(hit);
 }
 
 async function streamToFile(source: NodeJS.ReadableStream, file: string) {
