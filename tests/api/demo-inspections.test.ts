@@ -20,7 +20,10 @@ describe('the demo inspections', () => {
     // The published demo reports have inspections of their own; these are the two recorded, not yet published.
     const rows = await ctx.services
       .db('inspections')
-      .whereIn('order_id', demoInspections.map((d) => d.orderId))
+      .whereIn(
+        'order_id',
+        demoInspections.map((d) => d.orderId),
+      )
       .select('order_id', 'document', 'version');
     expect(rows).toHaveLength(2);
     const grades = rows.map((row) => {
