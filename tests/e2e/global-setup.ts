@@ -24,7 +24,8 @@ function freePort(): Promise<number> {
   });
 }
 
-async function waitForHealth(url: string, child: ChildProcess, output: () => string, timeoutMs = 60_000) {
+// A fresh clone generates the demo's stills and video on first start (cached afterwards), which takes a minute on a busy 2-core machine.
+async function waitForHealth(url: string, child: ChildProcess, output: () => string, timeoutMs = 240_000) {
   const deadline = Date.now() + timeoutMs;
   while (Date.now() < deadline) {
     if (child.exitCode !== null) throw new Error(`the app exited with ${child.exitCode} before it was ready:\n${output()}`);
