@@ -58,6 +58,9 @@ async function main() {
     ...(fakeMail ? { fakeMail: { host: fakeMail.host, smtpPort: fakeMail.smtpPort, httpPort: fakeMail.httpPort } } : {}),
     ...(fakePayments ? { fakePayments: { host: fakePayments.host, port: fakePayments.port } } : {}),
   });
+  if (!(await services.db('companies').first('id'))) {
+    console.log('Adding the demo data: the first start draws the demo pictures and video, which can take a minute…');
+  }
   const { seeded, disclosureLinkPath } = await seedDemo(services.db, {
     passwordHashCost: config.passwordHashCost,
     mediaDir: config.media.dir,

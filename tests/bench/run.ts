@@ -4,10 +4,12 @@
  */
 import { benchCore } from './core.bench.ts';
 import { benchMedia } from './media.bench.ts';
+import { benchReport } from './report.bench.ts';
 
 const benches: [string, () => Promise<void>][] = [
   ['core analysis', benchCore],
   ['media: stills, markup, video upload', benchMedia],
+  ['published report: page, API, PDF', benchReport],
 ];
 
 for (const [name, run] of benches) {

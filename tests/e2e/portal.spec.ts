@@ -8,6 +8,39 @@ import { DEMO_PASSWORD, demoAccounts } from '../../seeds/demo.ts';
 import { demoStill, writeDemoVideo } from '../../seeds/media/demo-media.ts';
 import { collectPageErrors, launchBrowser, newPage, screenshot, screenshotDir } from './browser.ts';
 
+const axePath = path.resolve(import.meta.dirname, '../../node_modules/axe-core/axe.min.js');
+
+/**
+ * A phone at 390 px (the width the report's screenshots are reviewed at) or a desktop. `bypassCSP`
+ * only so the axe checker can be injected; the app's own scripts run under its policy either way.
+ */
+async function sized(b: Browser, size: 'phone-390' | 'desktop', options: { axe?: boolean } = {}) {
+  const phone = size === 'phone-390';
+  const context = await b.newContext({
+    viewport: phone ? { width: 390, height: 844 } : { width: 1280, height: 860 },
+    deviceScaleFactor: phone ? 2 : 1,
+    isMobile: phone,
+    hasTouch: phone,
+    bypassCSP: options.axe === true,
+  });
+  const page = await context.newPage();
+  page.setDefaultTimeout(15_000);
+  return { context, page };
+}
+
+/** axe-core on the page as it stands; the serious and critical findings, one line each. */
+async function seriousViolations(page: Page): Promise<string[]> {
+  await page.addScriptTag({ path: axePath });
+  const result = await page.evaluate(async () => {
+    const run = (window as unknown as { axe: { run: (ctx: Document) => Promise<AxeResult> } }).axe.run;
+    type AxeResult = { violations: { id: string; impact: string | null; help: string; nodes: { target: unknown[] }[] }[] };
+    return run(document);
+  });
+  return result.violations
+    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
+    .map((v) => `${v.impact} ${v.id}: ${v.help} — ${v.nodes.map((n) => JSON.stringify(n.target)).join(', ')}`);
+}
+
 /*
  * Journeys 4–6 in the browser: the office reviews and publishes, the buyer reads the report
  * on a phone (pins, stills, the video, a question, the PDF), the agent makes a share link
@@ -67,7 +100,11 @@ async function arrangeRecordedOrder(page: Page) {
       accessNotes: 'Cleanout by the sidewalk.',
     },
     contingencyDeadline: isoDay(10),
-    parties: [{ partyRole: 'buyer', name: 'Riley Hartmann', email: account('riley').email }],
+    parties: [
+      { partyRole: 'buyer', name: 'Riley Hartmann', email: account('riley').email },
+      // The seller is on the order too, and reads nothing until the buyer's side shares it.
+      { partyRole: 'seller', name: 'Walt Emerson', email: account('walt').email },
+    ],
     payer: 'agent_now',
     confirmDuplicate: true,
   })) as { order: { id: string } };
@@ -284,6 +321,58 @@ describe('review, publish and read', () => {
     } finally {
       await guest.context.close();
       await context.close();
+    }
+  });
+
+  it('passes axe with no serious or critical violations, on a 390 px phone and on a desktop', async () => {
+    for (const size of ['phone-390', 'desktop'] as const) {
+      const { context, page } = await sized(browser, size, { axe: true });
+      try {
+        await signIn(page, account('riley').email);
+        await page.goto(`${baseUrl}/portal/reports/${orderId}`);
+        await page.getByRole('heading', { level: 2, name: 'Repair now' }).waitFor();
+        await page.getByRole('region', { name: 'Questions' }).waitFor();
+        expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(size === 'desktop' ? 1280 : 390);
+        // The desktop picture is taken by the reading test above.
+        if (size === 'phone-390') await screenshot(page, 'report-buyer-phone-390');
+        expect(await seriousViolations(page), size).toEqual([]);
+      } finally {
+        await context.close();
+      }
+    }
+  });
+
+  it("the buyer's agent shares the report with the seller's side; the seller reads it then, and not before", async () => {
+    const seller = await sized(browser, 'phone-390');
+    try {
+      await signIn(seller.page, account('walt').email);
+      await seller.page.goto(`${baseUrl}/portal/reports/${orderId}`);
+      await seller.page.getByRole('heading', { name: 'We could not find that report' }).waitFor();
+      expect(await seller.page.getByText('Repair now').count()).toBe(0);
+      await screenshot(seller.page, 'report-seller-before-phone-390');
+
+      const agent = await newPage(browser, 'desktop');
+      try {
+        await signIn(agent.page, account('theo').email);
+        await agent.page.goto(`${baseUrl}/portal/reports/${orderId}`);
+        await agent.page.getByRole('button', { name: 'Share with the seller’s side' }).click();
+        await agent.page.getByText('Shared with the seller’s side').first().waitFor();
+        await agent.page.getByRole('button', { name: 'Withdraw sharing' }).waitFor();
+      } finally {
+        await agent.context.close();
+      }
+
+      const errors = collectPageErrors(seller.page);
+      await seller.page.reload();
+      await seller.page.getByRole('heading', { level: 2, name: 'Repair now' }).waitFor();
+      // The other side reads; sharing onward and the view log stay with the buyer's side.
+      expect(await seller.page.getByRole('region', { name: 'Share links' }).count()).toBe(0);
+      expect(await seller.page.getByRole('button', { name: /Share with the/ }).count()).toBe(0);
+      expect(await seller.page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+      await screenshot(seller.page, 'report-seller-phone-390');
+      expect(errors).toEqual([]);
+    } finally {
+      await seller.context.close();
     }
   });
 });
