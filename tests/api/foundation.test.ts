@@ -1,7 +1,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ConfigError, parseConfig } from '@underfoot/server';
-import { createTestContext, type TestContext } from '../support/test-app.ts';
+import { browserLikeAgent, createTestContext, type TestContext } from '../support/test-app.ts';
 
 describe('server foundation', () => {
   let ctx: TestContext;
@@ -41,6 +41,15 @@ describe('server foundation', () => {
       .expect(413);
     expect(res.body).toMatchObject({ code: 'body_too_large', status: 413 });
     expect(res.body.detail).toContain('KB');
+  });
+
+  it('compresses JSON for clients that accept gzip', async () => {
+    const client = await browserLikeAgent(ctx.app);
+    await client.signIn(ctx.users.office.email);
+    const res = await client.agent.get('/api/company/price-book').set('Accept-Encoding', 'gzip');
+    expect(res.status).toBe(200);
+    expect(res.headers['content-encoding']).toBe('gzip');
+    expect(res.body.priceBook).toBeDefined();
   });
 
   it('answers malformed JSON with 400 and no stack trace', async () => {
