@@ -29,7 +29,7 @@ import { cn } from '@/lib/cn';
 import { formatVideoTime, newId, parseVideoTime } from '../model/document';
 import { ConfirmButton, FieldError, InputField, SelectField, Sheet, TextAreaField } from './controls';
 import { FootageField, type FootageInput } from './footage-field';
-import { ShapeMark } from './marks';
+import { ShapeMark } from '@/components/ui/grade-marks';
 
 const fittingNames: Record<string, string> = {
   wye: 'Wye (angled)',

@@ -1,6 +1,6 @@
 import { formatRange, type Analysis, type Check } from '@underfoot/core';
 import { cn } from '@/lib/cn';
-import { GradeChip } from './marks';
+import { GradeChip } from '@/components/ui/grade-marks';
 import { SectionCard } from './controls';
 
 const checkLevelNames: Record<Check['level'], string> = { concern: 'Concern', advice: 'Advice', note: 'Note' };

@@ -15,7 +15,7 @@ import { AccessPoints } from '../components/access-points';
 import { CheckedNotFound } from '../components/checked-not-found';
 import { ConflictDialog } from '../components/conflict-dialog';
 import { LivePreview } from '../components/live-preview';
-import { GradeChip } from '../components/marks';
+import { GradeChip } from '@/components/ui/grade-marks';
 import { RunCard } from '../components/run-card';
 import { SaveStatus } from '../components/save-status';
 import { useEditorEngine } from '../hooks/use-editor-engine';

@@ -22,7 +22,8 @@ import { useMemo, useState, type MouseEvent, type ReactNode } from 'react';
 import { cn } from '@/lib/cn';
 import type { MediaSource, RevisionView, SnapshotMedia } from '../api';
 import { Lightbox } from './lightbox';
-import { SeverityLabel, Shape } from './marks';
+import { ShapeMark } from '@/components/ui/grade-marks';
+import { SeverityLabel } from './marks';
 
 const DIAGRAM_PREFIX = 'report';
 export const findingAnchor = (observationId: string) => `${DIAGRAM_PREFIX}-finding-${observationId}`;
@@ -158,7 +159,7 @@ export function ReportDocument({ revision, changes, readerSide, media, headerAct
       >
         <p className="text-sm font-semibold tracking-wide text-ink-muted uppercase">Condition grade</p>
         <div className="mt-1 flex items-center gap-3">
-          <Shape shape={style.shape} color={style.color} className="size-9" />
+          <ShapeMark shape={style.shape} color={style.color} className="size-9" />
           <h2 id="grade-title" className="text-3xl font-bold tracking-tight">
             {grade.name}
           </h2>
@@ -191,7 +192,7 @@ export function ReportDocument({ revision, changes, readerSide, media, headerAct
         <ol className="mt-4 flex flex-wrap gap-x-3 gap-y-1.5 text-xs text-ink-muted" aria-label="The five grades, best to worst">
           {(['clear', 'maintain', 'plan_repair', 'repair_now', 'failing'] as const).map((level) => (
             <li key={level} className={cn('inline-flex items-center gap-1', level === grade.level && 'font-semibold text-ink')}>
-              <Shape shape={gradeStyles[level].shape} color={gradeStyles[level].color} className="size-3" />
+              <ShapeMark shape={gradeStyles[level].shape} color={gradeStyles[level].color} className="size-3" />
               {gradeInfo[level].name}
             </li>
           ))}
@@ -224,7 +225,7 @@ export function ReportDocument({ revision, changes, readerSide, media, headerAct
                     href={`#${findingAnchor(finding.observation.id)}`}
                     className="inline-flex min-h-11 items-center gap-1.5 rounded-full border border-line-strong bg-sheet px-3 text-sm text-ink no-underline hover:bg-sand"
                   >
-                    <Shape shape={pin.shape} color={pin.color} className="size-3" />
+                    <ShapeMark shape={pin.shape} color={pin.color} className="size-3" />
                     <span className="font-semibold">{number ?? '–'}</span> {kindInfo[finding.observation.kind].name}
                     <span className="numeric text-ink-muted">{formatFootage(finding.start)}</span>
                   </a>

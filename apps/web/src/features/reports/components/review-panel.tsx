@@ -32,7 +32,7 @@ import {
   useReopen,
   type ReviewPage,
 } from '../api';
-import { GradePill } from './marks';
+import { GradeChip } from '@/components/ui/grade-marks';
 import { Panel } from './report-panels';
 
 const checkTone: Record<Check['level'], string> = {
@@ -107,7 +107,7 @@ export function ReviewPanel({ orderId, editHref, onPublished }: { orderId: strin
               description={`Computed now from the inspection as saved${inspection.data.inspection.updatedAt ? ` ${formatDateTime(inspection.data.inspection.updatedAt)}` : ''}${inspection.data.inspection.updatedBy ? ` by ${inspection.data.inspection.updatedBy.name}` : ''}.`}
             >
               <div className="flex flex-wrap items-center gap-2">
-                <GradePill level={analysis.grade.level} />
+                <GradeChip level={analysis.grade.level} />
                 {analysis.grade.override ? (
                   <span className="text-sm text-ink-muted">
                     set by hand; the findings give {gradeInfo[analysis.grade.computedLevel].name}
@@ -254,7 +254,7 @@ export function ReviewPanel({ orderId, editHref, onPublished }: { orderId: strin
                     <span className="font-semibold">
                       {r.number}. {revisionKindNames[r.kind]}
                     </span>
-                    <GradePill level={r.grade} />
+                    <GradeChip level={r.grade} />
                   </div>
                   <p className="numeric text-ink-muted">
                     {formatDateTime(r.publishedAt)}
