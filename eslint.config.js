@@ -5,7 +5,7 @@ import tseslint from 'typescript-eslint';
 import { featureBoundaries } from './tools/eslint/feature-boundaries.js';
 
 export default tseslint.config(
-  { ignores: ['**/dist/**', '**/node_modules/**', 'data/**', 'test-results/**', 'coverage/**'] },
+  { ignores: ['**/dist/**', '**/dist-server/**', '**/node_modules/**', 'data/**', 'test-results/**', 'coverage/**'] },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {

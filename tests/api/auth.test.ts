@@ -33,6 +33,39 @@ describe('sign-in', () => {
     expect(me.body.user.role).toBe('office');
   });
 
+  it('keeps a session in use alive without writing it on every request', async () => {
+    const client = await browserLikeAgent(ctx.app);
+    await client.signIn(ctx.users.agent.email);
+    const db = ctx.services.db;
+    const sid = decodeURIComponent(
+      String((await client.agent.jar.getCookie('underfoot.sid', { domain: '127.0.0.1', path: '/', secure: false, script: false }))?.value),
+    )
+      .slice(2)
+      .split('.')[0]!;
+    const stored = async () => db('sessions').where({ sid }).first();
+    // The first request after sign-in notes when the session was last refreshed.
+    await client.agent.get('/api/auth/me').expect(200);
+    const before = await stored();
+    expect(before).toBeDefined();
+
+    // Plain reads leave the stored session alone (no write per request).
+    await client.agent.get('/api/auth/me').expect(200);
+    await client.agent.get('/api/auth/me').expect(200);
+    expect((await stored()).expired).toBe(before.expired);
+
+    // An hour on, the next request pushes the expiry forward and sends the cookie again.
+    const sess = JSON.parse(before.sess);
+    sess.refreshedAt = Date.now() - 61 * 60_000;
+    await db('sessions')
+      .where({ sid })
+      .update({ sess: JSON.stringify(sess), expired: new Date(Date.now() + 60_000).toISOString() });
+    const res = await client.agent.get('/api/auth/me').expect(200);
+    expect(String(res.headers['set-cookie'])).toMatch(/underfoot\.sid=/);
+    const after = await stored();
+    expect(new Date(after.expired).getTime()).toBeGreaterThan(Date.now() + 13 * 24 * 60 * 60_000);
+    expect(JSON.parse(after.sess).refreshedAt).toBeGreaterThan(Date.now() - 60_000);
+  });
+
   it('accepts the e-mail in any case', async () => {
     const client = await browserLikeAgent(ctx.app);
     const res = await client.signIn('  OFFICE@Mudlark.TEST ');

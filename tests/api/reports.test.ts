@@ -415,6 +415,24 @@ describe('share links and guests', () => {
 });
 
 describe('views, questions and the PDF', () => {
+  it('counts a reader coming back to the same revision within ten minutes as one opening', async () => {
+    const { orderId } = await publishedOrder();
+    const reader = await buyer();
+    for (let i = 0; i < 3; i++) await reader.agent.get(`/api/reports/${orderId}`).expect(200);
+    const logged = () => db()('report_views').where({ order_id: orderId, what: 'report' }).orderBy('id');
+    expect(await logged()).toHaveLength(1);
+    // Eleven minutes later it is a new opening.
+    const first = (await logged())[0]!;
+    await db()('report_views')
+      .where({ id: first.id })
+      .update({ viewed_at: new Date(Date.now() - 11 * 60_000).toISOString() });
+    await reader.agent.get(`/api/reports/${orderId}`).expect(200);
+    expect(await logged()).toHaveLength(2);
+    // Someone else reading is their own opening.
+    await (await buyersAgent()).agent.get(`/api/reports/${orderId}`).expect(200);
+    expect(await logged()).toHaveLength(3);
+  });
+
   it('logs every view and download; the ordering agent and the office see who opened what', async () => {
     const { orderId } = await publishedOrder();
     const link = await (await buyersAgent()).post(`/api/reports/${orderId}/share-links`, { label: 'Insurer' });

@@ -93,7 +93,8 @@ describe('security', () => {
   });
 
   it('cookies are HttpOnly and SameSite=Lax; Secure when served over HTTPS', async () => {
-    const res = await (await browserLikeAgent(ctx.app)).agent.get('/api/auth/csrf');
+    // A first visit: the session (and its cookie) starts here.
+    const res = await request(ctx.app).get('/api/auth/csrf');
     const cookie = String(res.headers['set-cookie']);
     expect(cookie).toMatch(/HttpOnly/i);
     expect(cookie).toMatch(/SameSite=Lax/i);

@@ -24,6 +24,8 @@ import { insertOrder, sampleDocument } from '../support/inspection-fixtures.ts';
 import { browserLikeAgent, createTestContext, type TestContext } from '../support/test-app.ts';
 
 const STILLS = 20;
+/** Page loads per network profile: shared machines are noisy, so the median of several. */
+const ROUNDS = 5;
 
 const percentile = (values: number[], p: number) => {
   const sorted = [...values].sort((a, b) => a - b);
@@ -34,7 +36,7 @@ const mark = (met: boolean) => (met ? 'met' : 'NOT met');
 
 type Client = Awaited<ReturnType<typeof browserLikeAgent>>;
 
-async function signedIn(ctx: TestContext, email: string): Promise<{ client: Client; cookie: string }> {
+export async function signedIn(ctx: TestContext, email: string): Promise<{ client: Client; cookie: string }> {
   const client = await browserLikeAgent(ctx.app);
   const res = await client.signIn(email);
   if (res.status !== 200) throw new Error(`sign-in as ${email} answered ${res.status}`);
@@ -43,7 +45,7 @@ async function signedIn(ctx: TestContext, email: string): Promise<{ client: Clie
 }
 
 /** A paid order, recorded by the inspector with 20 generated pipe stills, published by the office. */
-async function publishedReport(ctx: TestContext): Promise<string> {
+export async function publishedReport(ctx: TestContext): Promise<string> {
   const orderId = await insertOrder(ctx);
   await ctx.services.db('orders').where({ id: orderId }).update({ payment_state: 'paid' });
   const { client: field } = await signedIn(ctx, ctx.users.inspector.email);
@@ -93,7 +95,7 @@ async function fetchPdf(baseUrl: string, orderId: string, cookie: string): Promi
   return { ms, bytes: body.length };
 }
 
-async function benchPdf(ctx: TestContext, orderId: string, cookie: string): Promise<number> {
+export async function benchPdf(ctx: TestContext, orderId: string, cookie: string): Promise<number> {
   const runs: { ms: number; bytes: number }[] = [];
   for (let round = 0; round < 5; round++) runs.push(await fetchPdf(ctx.baseUrl, orderId, cookie));
   const times = runs.map((r) => r.ms);
@@ -126,6 +128,10 @@ const profiles: NetworkProfile[] = [
 
 interface PageLoad {
   lcpMs: number;
+  /** Which element was the largest paint, for diagnosis. */
+  lcpElement: string;
+  /** First contentful paint, for diagnosis. */
+  fcpMs: number;
   gradeMs: number;
   bytesToGrade: number;
   bytesTotal: number;
@@ -148,11 +154,29 @@ async function loadReportPage(
       }),
     );
     await context.addInitScript(() => {
-      const w = window as unknown as { __lcp: number };
+      const w = window as unknown as { __lcp: number; __lcpElement: string; __gradePaint: number; __fcp: number };
       w.__lcp = 0;
+      w.__lcpElement = '';
+      w.__gradePaint = 0;
+      w.__fcp = 0;
       new PerformanceObserver((list) => {
-        for (const entry of list.getEntries()) w.__lcp = entry.startTime;
+        for (const entry of list.getEntries() as (PerformanceEntry & { element: Element | null; size: number })[]) {
+          w.__lcp = entry.startTime;
+          const el = entry.element;
+          w.__lcpElement = el
+            ? `<${el.tagName.toLowerCase()}${el.id ? `#${el.id}` : ''}> ${Math.round(entry.size)} px²`
+            : 'removed element';
+        }
       }).observe({ type: 'largest-contentful-paint', buffered: true });
+      // Element Timing: when the grade heading (elementtiming="report-grade") was first painted.
+      new PerformanceObserver((list) => {
+        for (const entry of list.getEntries() as (PerformanceEntry & { identifier: string; renderTime: number })[]) {
+          if (entry.identifier === 'report-grade' && !w.__gradePaint) w.__gradePaint = entry.renderTime || entry.startTime;
+        }
+      }).observe({ type: 'element', buffered: true });
+      new PerformanceObserver((list) => {
+        for (const entry of list.getEntries()) if (entry.name === 'first-contentful-paint') w.__fcp = entry.startTime;
+      }).observe({ type: 'paint', buffered: true });
     });
     const page = await context.newPage();
     page.setDefaultTimeout(60_000);
@@ -166,25 +190,49 @@ async function loadReportPage(
       downloadThroughput: (profile.downKbit * 1024) / 8,
       uploadThroughput: (profile.upKbit * 1024) / 8,
     });
-    let bytes = 0;
-    cdp.on('Network.loadingFinished', (event: { encodedDataLength: number }) => (bytes += event.encodedDataLength));
+    // Every byte with the moment it arrived (CDP's monotonic clock, in seconds), to count those before the grade's paint.
+    let navigationStart = 0;
+    const received: { at: number; requestId: string; bytes: number }[] = [];
+    const finished: { at: number; requestId: string; bytes: number }[] = [];
+    cdp.on('Network.requestWillBeSent', (e: { type?: string; timestamp: number }) => {
+      if (e.type === 'Document' && !navigationStart) navigationStart = e.timestamp;
+    });
+    cdp.on('Network.dataReceived', (e: { requestId: string; timestamp: number; encodedDataLength: number }) =>
+      received.push({ at: e.timestamp, requestId: e.requestId, bytes: e.encodedDataLength }),
+    );
+    cdp.on('Network.loadingFinished', (e: { requestId: string; timestamp: number; encodedDataLength: number }) =>
+      finished.push({ at: e.timestamp, requestId: e.requestId, bytes: e.encodedDataLength }),
+    );
+    /** Bytes on the wire up to a moment: whole responses finished by then (headers included), and what had arrived of the others. */
+    const bytesBy = (at: number) => {
+      const perRequest = new Map<string, number>();
+      for (const r of received) if (r.at <= at) perRequest.set(r.requestId, (perRequest.get(r.requestId) ?? 0) + r.bytes);
+      for (const f of finished) if (f.at <= at) perRequest.set(f.requestId, Math.max(perRequest.get(f.requestId) ?? 0, f.bytes));
+      return [...perRequest.values()].reduce((sum, n) => sum + n, 0);
+    };
 
-    const start = performance.now();
     await page.goto(`${ctx.baseUrl}/portal/reports/${orderId}`, { waitUntil: 'commit' });
     await page.locator('#grade-title').waitFor({ state: 'visible' });
-    const gradeMs = performance.now() - start;
-    const bytesToGrade = bytes;
     // Let the page settle so later, larger paints (pictures) can still become the LCP candidate.
     await page.waitForLoadState('load');
     await page.waitForTimeout(1500);
-    const lcpMs = await page.evaluate(() => (window as unknown as { __lcp: number }).__lcp);
-    return { lcpMs, gradeMs, bytesToGrade, bytesTotal: bytes };
+    const marks = await page.evaluate(() => {
+      const w = window as unknown as { __lcp: number; __lcpElement: string; __gradePaint: number; __fcp: number };
+
+      return { lcpMs: w.__lcp, lcpElement: w.__lcpElement, gradeMs: w.__gradePaint, fcpMs: w.__fcp };
+    });
+    if (!marks.gradeMs) throw new Error('the grade heading reported no paint (is elementtiming="report-grade" on it?)');
+    return {
+      ...marks,
+      bytesToGrade: bytesBy(navigationStart + marks.gradeMs / 1000),
+      bytesTotal: bytesBy(Number.POSITIVE_INFINITY),
+    };
   } finally {
     await context.close();
   }
 }
 
-async function benchPage(ctx: TestContext, orderId: string, cookie: string, pdfBytes: number) {
+export async function benchPage(ctx: TestContext, orderId: string, cookie: string, pdfBytes: number) {
   if (!existsSync(path.join(webDistDir, 'index.html'))) {
     console.log('report page: SKIPPED — the web app is not built (run `npm run build` first, then the bench again).');
     return;
@@ -197,21 +245,23 @@ async function benchPage(ctx: TestContext, orderId: string, cookie: string, pdfB
   try {
     for (const [index, profile] of profiles.entries()) {
       const loads: PageLoad[] = [];
-      for (let round = 0; round < 3; round++) loads.push(await loadReportPage(browser, ctx, orderId, cookie, profile));
+      for (let round = 0; round < ROUNDS; round++) loads.push(await loadReportPage(browser, ctx, orderId, cookie, profile));
       const lcp = median(loads.map((l) => l.lcpMs));
       const grade = median(loads.map((l) => l.gradeMs));
+      const fcp = median(loads.map((l) => l.fcpMs));
       const toGrade = median(loads.map((l) => l.bytesToGrade));
       const total = median(loads.map((l) => l.bytesTotal));
       const fewer = pdfBytes / toGrade;
       console.log(
-        `report page, phone, 4× CPU, ${profile.name}, cold cache (medians of 3): grade visible ${grade.toFixed(0)} ms,` +
+        `report page, phone, 4× CPU, ${profile.name}, cold cache (medians of ${ROUNDS}): first paint ${fcp.toFixed(0)} ms, grade painted ${grade.toFixed(0)} ms,` +
           ` ${(toGrade / 1024).toFixed(0)} KB before the grade, ${(total / 1024).toFixed(0)} KB in all; PDF ${(pdfBytes / 1024).toFixed(0)} KB`,
       );
       // The targets are judged on the first (standard) profile; the harsher one is printed for scale.
       const judged = index === 0;
       const verdict = (met: boolean) => (judged ? `: ${mark(met)}` : ', for scale');
+      const lcpElement = loads.find((l) => l.lcpMs === lcp)?.lcpElement ?? '';
       console.log(
-        `  largest contentful paint       ${lcp.toFixed(0)} ms = ${(lcp / 1500).toFixed(2)}× of 1.5 s  (target ≤ 1.5 s${verdict(lcp <= 1500)})`,
+        `  largest contentful paint       ${lcp.toFixed(0)} ms = ${(lcp / 1500).toFixed(2)}× of 1.5 s  (target ≤ 1.5 s${verdict(lcp <= 1500)}); element ${lcpElement}`,
       );
       console.log(`  bytes before the grade         ${fewer.toFixed(1)}× fewer than the PDF  (target ≥ 20×${verdict(fewer >= 20)})`);
     }
@@ -254,7 +304,7 @@ function runLoad(url: string, cookie: string, seconds: number): Promise<LoadResu
   });
 }
 
-async function benchApi(ctx: TestContext, orderId: string, cookie: string) {
+export async function benchApi(ctx: TestContext, orderId: string, cookie: string) {
   const url = `${ctx.baseUrl}/api/reports/${orderId}`;
   const sample = await fetch(url, { headers: { cookie } });
   const text = await sample.text();

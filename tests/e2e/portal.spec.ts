@@ -283,6 +283,55 @@ describe('review, publish and read', () => {
     }
   });
 
+  it("sends the grade in the page's first HTML to its reader only, and the app then takes the page over", async () => {
+    /** The raw HTML of the report page, as a browser's first request gets it. */
+    const firstHtml = async (email: string | null) => {
+      let cookie = '';
+      if (email) {
+        const csrf = await fetch(`${baseUrl}/api/auth/csrf`);
+        cookie = csrf.headers.get('set-cookie')!.match(/underfoot\.sid=[^;]+/)![0];
+        const { token } = (await csrf.json()) as { token: string };
+        const signedIn = await fetch(`${baseUrl}/api/auth/sign-in`, {
+          method: 'POST',
+          headers: { 'content-type': 'application/json', cookie, 'x-csrf-token': token },
+          body: JSON.stringify({ email, password: DEMO_PASSWORD }),
+        });
+        expect(signedIn.status).toBe(200);
+        cookie = signedIn.headers.get('set-cookie')!.match(/underfoot\.sid=[^;]+/)![0];
+      }
+      const res = await fetch(`${baseUrl}/portal/reports/${orderId}`, { headers: { cookie } });
+      expect(res.status).toBe(200);
+      return { html: await res.text(), cacheControl: res.headers.get('cache-control') };
+    };
+    const { html: buyers, cacheControl } = await firstHtml(account('riley').email);
+    // The page holds a person's report: never kept by a shared cache.
+    expect(cacheControl).toBe('no-store');
+    expect(buyers).toContain('data-first-view');
+    expect(buyers).toMatch(/<h2 id="grade-title"[^>]*>Repair now<\/h2>/);
+    expect(buyers).toContain('What this means for you');
+    // Signed out, or the seller before the buyer's side shares it: the plain app page, nothing of the report.
+    for (const { html } of [await firstHtml(null), await firstHtml(account('walt').email)]) {
+      expect(html).not.toContain('data-first-view');
+      expect(html).not.toContain('Repair now');
+      expect(html).not.toContain(street);
+    }
+
+    // In the browser the app renders over the first view, and the page works as usual.
+    const { context, page } = await newPage(browser, 'phone');
+    const errors = collectPageErrors(page);
+    try {
+      await signIn(page, account('riley').email);
+      await page.goto(`${baseUrl}/portal/reports/${orderId}`);
+      await page.getByRole('heading', { level: 2, name: 'Repair now' }).waitFor();
+      await page.getByRole('region', { name: 'Questions' }).waitFor();
+      expect(await page.getByRole('heading', { level: 2, name: 'Repair now' }).count()).toBe(1);
+      await page.getByRole('heading', { name: 'In short' }).waitFor();
+      expect(errors).toEqual([]);
+    } finally {
+      await context.close();
+    }
+  });
+
   it('the agent shares a link that a guest opens without an account, then revokes it', async () => {
     const { context, page } = await newPage(browser, 'desktop');
     const errors = collectPageErrors(page);

@@ -27,6 +27,7 @@ import { paymentsRouter, paymentWebhookRouter } from './modules/payments/payment
 import { createPaymentsService } from './modules/payments/payments.service.ts';
 import { reportsRouter } from './modules/reports/reports.router.ts';
 import { createReportsService } from './modules/reports/reports.service.ts';
+import { reportFirstView } from './modules/reports/report-first-view.ts';
 import type { Services } from './services.ts';
 import { inspectionsRouter } from './modules/inspections/inspections.router.ts';
 import { createInspectionsService } from './modules/inspections/inspections.service.ts';
@@ -34,6 +35,11 @@ import { mediaRouter } from './modules/media/media.router.ts';
 import { createMediaService } from './modules/media/media.service.ts';
 
 export const webDistDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../web/dist');
+/** The web app's server-rendered first view of a report (built next to the app by `npm run build`). */
+const reportFirstViewEntry = path.resolve(
+  path.dirname(fileURLToPath(import.meta.url)),
+  '../../web/dist-server/report-first-view.server.js',
+);
 
 /** Build the Express app without listening; main.ts listens, tests use supertest. */
 export function createApp(config: Config, services: Services): Express {
@@ -102,7 +108,8 @@ export function createApp(config: Config, services: Services): Express {
   // A whole inspection document (hundreds of findings) is larger than a form; parsed here before the general limit.
   app.use('/api/orders/:orderId/inspection', express.json({ limit: '2mb' }));
   app.use('/api', express.json({ limit: '100kb' }));
-  app.use('/api', sessionMiddleware(config, services.sessionStore));
+  const sessions = sessionMiddleware(config, services.sessionStore);
+  app.use('/api', sessions);
   const auth = createAuthService({
     db,
     publicUrl: config.publicUrl,
@@ -141,6 +148,13 @@ export function createApp(config: Config, services: Services): Express {
 
   if (existsSync(path.join(webDistDir, 'index.html'))) {
     app.use(express.static(webDistDir, { index: false, maxAge: '1h', setHeaders: immutableAssets }));
+    app.get(
+      '/portal/reports/:orderId',
+      sessions,
+      passport.initialize(),
+      passport.session(),
+      reportFirstView({ reports, webDistDir, serverEntry: reportFirstViewEntry, log: logger }),
+    );
     // Client-side routes: every other GET gets the app shell.
     app.get('/{*splat}', (_req, res) => {
       res.set('Cache-Control', 'no-cache').sendFile(path.join(webDistDir, 'index.html'));

@@ -26,8 +26,9 @@ export function knexConfig(settings: DbSettings): Knex.Config {
       // better-sqlite3 is synchronous: one connection serialises writes without lock errors.
       min: 1,
       max: 1,
-      afterCreate(conn: { pragma(sql: string): unknown }, done: (err: Error | null, conn: unknown) => void) {
+      afterCreate(conn: SqliteConnection, done: (err: Error | null, conn: unknown) => void) {
         try {
+          reusePreparedStatements(conn);
           conn.pragma('journal_mode = WAL');
           conn.pragma('foreign_keys = ON');
           conn.pragma('busy_timeout = 5000');
@@ -39,6 +40,33 @@ export function knexConfig(settings: DbSettings): Knex.Config {
       },
     },
     migrations,
+  };
+}
+
+interface SqliteConnection {
+  pragma(sql: string): unknown;
+  prepare(sql: string): unknown;
+}
+
+/** Distinct SQL texts kept prepared per connection; queries with long IN lists make many, so the oldest go. */
+const PREPARED_STATEMENTS_KEPT = 500;
+
+/**
+ * Knex prepares every query afresh; on the hot read paths preparing cost as much as running.
+ * A prepared statement is reusable (better-sqlite3 runs it synchronously, and SQLite
+ * re-prepares it by itself after a schema change), so each connection keeps them by SQL text.
+ */
+function reusePreparedStatements(conn: SqliteConnection) {
+  const prepare = conn.prepare.bind(conn);
+  const kept = new Map<string, unknown>();
+  conn.prepare = (sql: string) => {
+    let statement = kept.get(sql);
+    if (statement === undefined) {
+      statement = prepare(sql);
+      if (kept.size >= PREPARED_STATEMENTS_KEPT) kept.delete(kept.keys().next().value!);
+      kept.set(sql, statement);
+    }
+    return statement;
   };
 }
 

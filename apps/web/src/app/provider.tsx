@@ -23,7 +23,9 @@ const toasterTheme = {
   '--info-border': 'var(--color-accent)',
 } as CSSProperties;
 
-function createApp() {
+export type AppParts = ReturnType<typeof createApp>;
+
+export function createApp() {
   // The query client and the router need each other: a 401 anywhere re-runs the guards.
   const queryClient = createQueryClient({
     onUnauthorized: () => {
@@ -35,8 +37,23 @@ function createApp() {
   return { queryClient, router };
 }
 
-export function App() {
-  const [{ queryClient, router }] = useState(createApp);
+/**
+ * Resolves once the router has run the first page's loaders, so the first render is the page
+ * itself rather than a loading screen (used when the server sent a first view to keep on screen).
+ */
+export function whenRouterReady({ router }: AppParts): Promise<void> {
+  if (router.state.initialized) return Promise.resolve();
+  return new Promise((resolve) => {
+    const stop = router.subscribe((state) => {
+      if (!state.initialized) return;
+      stop();
+      resolve();
+    });
+  });
+}
+
+export function App({ parts }: { parts?: AppParts }) {
+  const [{ queryClient, router }] = useState(() => parts ?? createApp());
   return (
     <QueryClientProvider client={queryClient}>
       <RouterProvider router={router} />

@@ -2,6 +2,7 @@ import type { QueryClient } from '@tanstack/react-query';
 import { createBrowserRouter, type RouteObject } from 'react-router-dom';
 import { FullPageLoading } from '@/components/ui/spinner';
 import { paths } from '@/config/paths';
+import { reportQueryOptions, revisionParam } from '@/features/reports/api';
 import { loadCurrentUser } from '@/lib/auth';
 import { homeLoader, requireAreaLoader, requireUserLoader, signedOutOnlyLoader } from './guards';
 import { NotFoundRoute, RootErrorBoundary } from './routes/errors';
@@ -180,7 +181,14 @@ export function createAppRoutes(queryClient: QueryClient): RouteObject[] {
             // Published reports: the reader's page in the portal; review, publish and the report for the company.
             {
               path: paths.reports.portal.path,
-              loader: requireAreaLoader(queryClient, 'portal'),
+              loader: async (args) => {
+                const allowed = await requireAreaLoader(queryClient, 'portal')(args);
+                // Read the report alongside the page's code, so the page draws whole at once (over the server's first view).
+                await queryClient.prefetchQuery(
+                  reportQueryOptions(args.params.orderId ?? '', revisionParam(new URL(args.request.url).searchParams)),
+                );
+                return allowed;
+              },
               lazy: async () => ({ Component: (await import('@/features/reports/routes/report')).ReportRoute }),
             },
             {

@@ -55,7 +55,7 @@ export async function listParties(db: Knex, orderId: string): Promise<PartyRecor
 }
 
 /** What core's `can` needs to decide about one order. */
-export async function loadOrderAccess(db: Knex, order: OrderRow): Promise<OrderAccess> {
+export async function loadOrderAccess(db: Knex, order: OrderRow, known: { published?: boolean } = {}): Promise<OrderAccess> {
   const parties = await db('order_parties').where({ order_id: order.id }).select('user_id', 'party_role');
   return {
     companyId: order.company_id,
@@ -65,7 +65,7 @@ export async function loadOrderAccess(db: Knex, order: OrderRow): Promise<OrderA
     parties: parties.map((p) => ({ userId: p.user_id, partyRole: p.party_role })),
     releasedTo: JSON.parse(order.released_to || '[]') as Side[],
     // The report is the order's: it exists once a first revision is published.
-    reportId: (await db('report_revisions').where({ order_id: order.id }).first('id')) ? order.id : null,
+    reportId: (known.published ?? (await db('report_revisions').where({ order_id: order.id }).first('id'))) ? order.id : null,
     published: order.status === 'published',
   };
 }

@@ -25,49 +25,70 @@ export interface ReportSnapshot {
   }[];
 }
 
+/** A revision without its snapshot (the large part, read once through `revisionSnapshot`). */
 export interface RevisionRow {
   id: string;
   order_id: string;
   number: number;
   kind: 'original' | 'amendment' | 'reinspection';
   note: string;
-  snapshot: string;
   grade: GradeLevel;
   published_by: string | null;
   published_at: string;
 }
 
+const revisionColumns = ['id', 'order_id', 'number', 'kind', 'note', 'grade', 'published_by', 'published_at'] as const;
+
 export async function latestRevision(db: Knex, orderId: string): Promise<RevisionRow | undefined> {
-  return db('report_revisions').where({ order_id: orderId }).orderBy('number', 'desc').first();
+  return db('report_revisions')
+    .where({ order_id: orderId })
+    .orderBy('number', 'desc')
+    .first(...revisionColumns);
 }
 
 export async function revisionByNumber(db: Knex, orderId: string, number: number): Promise<RevisionRow | undefined> {
-  return db('report_revisions').where({ order_id: orderId, number }).first();
+  return db('report_revisions')
+    .where({ order_id: orderId, number })
+    .first(...revisionColumns);
 }
 
-export async function listRevisions(db: Knex, orderId: string) {
-  const rows = await db('report_revisions')
+export async function revisionSnapshot(db: Knex, revisionId: string): Promise<ReportSnapshot> {
+  const row = await db('report_revisions').where({ id: revisionId }).first('snapshot');
+  if (!row) throw new Error(`revision ${revisionId} has no row`);
+  return JSON.parse(row.snapshot as string) as ReportSnapshot;
+}
+
+/** Every revision of a report, oldest first, without snapshots, with who published each. */
+export async function listRevisionRows(db: Knex, orderId: string): Promise<(RevisionRow & { published_by_name: string | null })[]> {
+  return db('report_revisions')
     .leftJoin('users', 'users.id', 'report_revisions.published_by')
     .where('report_revisions.order_id', orderId)
     .orderBy('report_revisions.number')
-    .select(
-      'report_revisions.number',
-      'report_revisions.kind',
-      'report_revisions.note',
-      'report_revisions.grade',
-      'report_revisions.published_at',
-      'users.name as published_by_name',
-    );
-  return rows.map((r) => ({
-    number: r.number as number,
-    kind: r.kind as RevisionRow['kind'],
-    note: r.note as string,
-    grade: r.grade as GradeLevel,
-    publishedAt: r.published_at as string,
-    publishedBy: (r.published_by_name as string | null) ?? null,
-  }));
+    .select(...revisionColumns.map((c) => `report_revisions.${c}`), 'users.name as published_by_name');
 }
 
+/** The revision list as readers get it. */
+export const revisionListItem = (r: RevisionRow & { published_by_name: string | null }) => ({
+  number: r.number,
+  kind: r.kind,
+  note: r.note,
+  grade: r.grade,
+  publishedAt: r.published_at,
+  publishedBy: r.published_by_name ?? null,
+});
+
+export async function listRevisions(db: Knex, orderId: string) {
+  return (await listRevisionRows(db, orderId)).map(revisionListItem);
+}
+
+/** A reader who comes back to the same revision within this window is one view, not many. */
+export const VIEW_REPEAT_WINDOW_MS = 10 * 60_000;
+
+/**
+ * Log that someone opened a revision (or its PDF), unless the same person or link already did
+ * within the last few minutes: the log answers "who opened what, when", and a reload or a
+ * tab left open is not a new opening.
+ */
 export async function recordView(
   db: Knex,
   view: {
@@ -79,6 +100,17 @@ export async function recordView(
     ip: string | undefined;
   },
 ): Promise<void> {
+  const now = new Date();
+  const recent = await db('report_views')
+    .where({ order_id: view.orderId, revision_number: view.revisionNumber, what: view.what })
+    .where((q) =>
+      view.viewerUserId
+        ? q.where('viewer_user_id', view.viewerUserId)
+        : q.where('share_link_id', view.shareLinkId ?? '').whereNull('viewer_user_id'),
+    )
+    .where('viewed_at', '>', new Date(now.getTime() - VIEW_REPEAT_WINDOW_MS).toISOString())
+    .first('id');
+  if (recent) return;
   await db('report_views').insert({
     order_id: view.orderId,
     revision_number: view.revisionNumber,
@@ -86,7 +118,7 @@ export async function recordView(
     share_link_id: view.shareLinkId,
     what: view.what,
     ip: view.ip ?? null,
-    viewed_at: new Date().toISOString(),
+    viewed_at: now.toISOString(),
   });
 }
 

@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { LRUCache } from 'lru-cache';
 import {
   analyseInspection,
   can,
@@ -30,9 +31,12 @@ import { renderReportPdf } from './report-pdf.ts';
 import {
   findShareLinkByTokenHash,
   latestRevision,
+  listRevisionRows,
   listRevisions,
   recordView,
+  revisionListItem,
   revisionByNumber,
+  revisionSnapshot,
   snapshotMediaIds,
   type ReportSnapshot,
   type RevisionRow,
@@ -81,9 +85,10 @@ export function createReportsService(deps: ReportsServiceDeps) {
     const order = await findOrderRow(db, orderId);
     if (!order) throw notFound('report');
     const access = await loadOrderAccess(db, order);
-    const company = await db('companies').where({ id: order.company_id }).first();
-    return { order, access, company, actor: actorOf(user) };
+    return { order, access, actor: actorOf(user) };
   }
+
+  const companyOf = async (order: OrderRow) => db('companies').where({ id: order.company_id }).first();
 
   /** Mail the parties on the given sides that a report (or its new revision) is there to read. */
   async function mailReleased(trx: Knex, order: OrderRow, companyName: string, toSides: readonly Side[], revisionNumber: number) {
@@ -121,7 +126,8 @@ export function createReportsService(deps: ReportsServiceDeps) {
     input: { note: string; kind?: 'amendment' | 'reinspection' | undefined; inspectionVersion?: number | undefined },
     ip?: string,
   ) {
-    const { order, access, company, actor } = await orderFor(user, orderId);
+    const { order, access, actor } = await orderFor(user, orderId);
+    const company = await companyOf(order);
     if (!can(actor, 'order.view', { order: access })) throw notFound('report');
     if (!publishAllowed(actor, access, company)) {
       throw forbidden(user.role === 'inspector' ? 'Your company has the office publish reports.' : 'You cannot publish this report.');
@@ -256,7 +262,8 @@ export function createReportsService(deps: ReportsServiceDeps) {
 
   /** Reopen a published report for an amendment or a re-inspection: the published revision stays readable meanwhile. */
   async function reopen(user: UserRecord, orderId: string, ip?: string) {
-    const { order, access, company, actor } = await orderFor(user, orderId);
+    const { order, access, actor } = await orderFor(user, orderId);
+    const company = await companyOf(order);
     if (!can(actor, 'order.view', { order: access })) throw notFound('report');
     if (!publishAllowed(actor, access, company))
       throw forbidden('Only the office, or an inspector the company allows, can reopen a report.');
@@ -293,7 +300,8 @@ export function createReportsService(deps: ReportsServiceDeps) {
 
   /** What the review screen needs besides the inspection itself: who may do what, the payment hold, the revisions. */
   async function review(user: UserRecord, orderId: string) {
-    const { order, access, company, actor } = await orderFor(user, orderId);
+    const { order, access, actor } = await orderFor(user, orderId);
+    const company = await companyOf(order);
     if (!can(actor, 'order.view', { order: access }) || !isStaff(user)) throw notFound('order');
     const mayPublish = publishAllowed(actor, access, company);
     const stored = await findInspection(db, orderId);
@@ -330,7 +338,8 @@ export function createReportsService(deps: ReportsServiceDeps) {
     input: { baseVersion: number; override: GradeOverride | null },
     ip?: string,
   ) {
-    const { order, access, company, actor } = await orderFor(user, orderId);
+    const { order, access, actor } = await orderFor(user, orderId);
+    const company = await companyOf(order);
     if (!can(actor, 'order.view', { order: access })) throw notFound('order');
     if (!publishAllowed(actor, access, company))
       throw forbidden('Only the office, or an inspector the company allows, can change the grade.');
@@ -370,31 +379,62 @@ export function createReportsService(deps: ReportsServiceDeps) {
     return { version: input.baseVersion + 1, updatedAt: now };
   }
 
+  /*
+   * A published revision never changes, so what readers get of it (the parsed snapshot, the
+   * view with or without costs, the comparison with the revision before) is worked out once
+   * per process and kept: correct behind any number of servers, since there is nothing to invalidate.
+   */
+  const frozen = new LRUCache<string, object>({ max: 500 });
+  const once = async <T extends object>(key: string, make: () => Promise<T> | T): Promise<T> => {
+    const kept = frozen.get(key) as T | undefined;
+    if (kept) return kept;
+    const made = await make();
+    frozen.set(key, made);
+    return made;
+  };
+  const snapshotOf = (revision: RevisionRow) => once(`snapshot:${revision.id}`, () => revisionSnapshot(db, revision.id));
+
+  /** The revision as readers get it; shared, so never changed by callers. */
   function viewOf(revision: RevisionRow, options: { showCosts: boolean }) {
-    const snapshot = JSON.parse(revision.snapshot) as ReportSnapshot;
-    if (!options.showCosts) {
-      snapshot.analysis.costs = { ...snapshot.analysis.costs, options: [], proposed: null };
-      const sentences = snapshot.analysis.summary.sentences.filter((s) => !s.includes('$'));
-      snapshot.analysis.summary = { sentences, text: sentences.join(' ') };
-    }
-    return {
-      number: revision.number,
-      kind: revision.kind,
-      note: revision.note,
-      publishedAt: revision.published_at,
-      gradeInfo: gradeInfo[revision.grade],
-      snapshot,
-      costsHidden: !options.showCosts,
-    };
+    return once(`view:${revision.id}:${options.showCosts}`, async () => {
+      let snapshot = await snapshotOf(revision);
+      if (!options.showCosts) {
+        const sentences = snapshot.analysis.summary.sentences.filter((s) => !s.includes('$'));
+        snapshot = {
+          ...snapshot,
+          analysis: {
+            ...snapshot.analysis,
+            costs: { ...snapshot.analysis.costs, options: [], proposed: null },
+            summary: { sentences, text: sentences.join(' ') },
+          },
+        };
+      }
+      return {
+        number: revision.number,
+        kind: revision.kind,
+        note: revision.note,
+        publishedAt: revision.published_at,
+        gradeInfo: gradeInfo[revision.grade],
+        snapshot,
+        costsHidden: !options.showCosts,
+      };
+    });
   }
 
   async function comparisonFor(orderId: string, revision: RevisionRow) {
     if (revision.number === 1) return null;
-    const previous = await revisionByNumber(db, orderId, revision.number - 1);
-    if (!previous) return null;
-    const a = JSON.parse(previous.snapshot) as ReportSnapshot;
-    const b = JSON.parse(revision.snapshot) as ReportSnapshot;
-    return compareRevisions({ inspection: a.inspection, grade: previous.grade }, { inspection: b.inspection, grade: revision.grade });
+    const { comparison } = await once(`changes:${revision.id}`, async () => {
+      const previous = await revisionByNumber(db, orderId, revision.number - 1);
+      if (!previous) return { comparison: null };
+      const [a, b] = [await snapshotOf(previous), await snapshotOf(revision)];
+      return {
+        comparison: compareRevisions(
+          { inspection: a.inspection, grade: previous.grade },
+          { inspection: b.inspection, grade: revision.grade },
+        ),
+      };
+    });
+    return comparison;
   }
 
   /** The sides of the sale this person stands on for this order (none for company staff). */
@@ -404,16 +444,21 @@ export function createReportsService(deps: ReportsServiceDeps) {
 
   /** The report a signed-in reader may see, or 404 for everyone else (a guess learns nothing). */
   async function readableRevision(user: UserRecord, orderId: string, revisionNumber?: number) {
-    const found = await orderFor(user, orderId);
-    if (!can(found.actor, 'report.read', { order: found.access })) throw notFound('report');
-    const revision = revisionNumber ? await revisionByNumber(db, orderId, revisionNumber) : await latestRevision(db, orderId);
+    const order = await findOrderRow(db, orderId);
+    if (!order) throw notFound('report');
+    // One look at the revisions serves the permission check, the list and the one to show.
+    const revisions = await listRevisionRows(db, orderId);
+    const access = await loadOrderAccess(db, order, { published: revisions.length > 0 });
+    const actor = actorOf(user);
+    if (!can(actor, 'report.read', { order: access })) throw notFound('report');
+    const revision = revisionNumber ? revisions.find((r) => r.number === revisionNumber) : revisions[revisions.length - 1];
     if (!revision) throw notFound('report');
-    return { ...found, revision };
+    return { order, access, actor, revision, revisions };
   }
 
   /** The report as a signed-in reader sees it (latest revision, or a given one); every read is logged. */
   async function read(user: UserRecord, orderId: string, options: { revision?: number | undefined; ip?: string | undefined } = {}) {
-    const { order, access, actor, revision } = await readableRevision(user, orderId, options.revision);
+    const { order, access, actor, revision, revisions } = await readableRevision(user, orderId, options.revision);
     await recordView(db, {
       orderId,
       revisionNumber: revision.number,
@@ -431,8 +476,8 @@ export function createReportsService(deps: ReportsServiceDeps) {
       releasedTo: released,
       /** The reader's side of the sale, for "what this means for you"; null for company staff. */
       readerSide: readerSides.includes(order.ordering_side) ? order.ordering_side : (readerSides[0] ?? null),
-      revisions: await listRevisions(db, orderId),
-      revision: viewOf(revision, { showCosts: true }),
+      revisions: revisions.map(revisionListItem),
+      revision: await viewOf(revision, { showCosts: true }),
       changes: await comparisonFor(orderId, revision),
       allowed: {
         disclose: can(actor, 'report.disclose', { order: access }) && !released.includes(otherSide(order.ordering_side)),
@@ -447,7 +492,8 @@ export function createReportsService(deps: ReportsServiceDeps) {
   }
 
   async function setDisclosure(user: UserRecord, orderId: string, disclose: boolean, ip?: string) {
-    const { order, access, company, actor } = await orderFor(user, orderId);
+    const { order, access, actor } = await orderFor(user, orderId);
+    const company = await companyOf(order);
     if (!can(actor, 'report.read', { order: access })) throw notFound('report');
     if (!can(actor, 'report.disclose', { order: access }))
       throw forbidden('Only the side that ordered the inspection can share it with the other side.');
@@ -482,7 +528,8 @@ export function createReportsService(deps: ReportsServiceDeps) {
     input: { purpose: 'guest' | 'disclosure'; label: string; expiresInDays: number | null; showCosts: boolean },
     ip?: string,
   ) {
-    const { order, access, company, actor } = await orderFor(user, orderId);
+    const { order, access, actor } = await orderFor(user, orderId);
+    const company = await companyOf(order);
     if (!can(actor, 'order.view', { order: access })) throw notFound('report');
     if (!can(actor, 'shareLink.manage', { order: access }))
       throw forbidden('Only the office and the ordering agent can share this report.');
@@ -603,7 +650,7 @@ export function createReportsService(deps: ReportsServiceDeps) {
       orderId: order.id,
       purpose: link.purpose,
       expiresAt: link.expires_at,
-      revision: viewOf(revision, { showCosts: Boolean(link.show_costs) }),
+      revision: await viewOf(revision, { showCosts: Boolean(link.show_costs) }),
       changes: await comparisonFor(order.id, revision),
     };
   }
@@ -611,8 +658,7 @@ export function createReportsService(deps: ReportsServiceDeps) {
   /** A file a guest may fetch: only those the link's latest revision shows. */
   async function sharedMediaFile(token: string, mediaId: string, variant: 'file' | 'thumbnail') {
     const { revision } = await liveLink(token);
-    const snapshot = JSON.parse(revision.snapshot) as ReportSnapshot;
-    if (!snapshotMediaIds(snapshot).has(mediaId)) throw notFound('file');
+    if (!snapshotMediaIds(await snapshotOf(revision)).has(mediaId)) throw notFound('file');
     const row = await findMedia(db, mediaId);
     if (!row || row.order_id !== revision.order_id) throw notFound('file');
     const key = variant === 'thumbnail' ? row.thumbnail_key : row.storage_key;
@@ -647,7 +693,7 @@ export function createReportsService(deps: ReportsServiceDeps) {
   /** The PDF of a revision for a signed-in reader; the download is logged as a view. */
   async function pdf(user: UserRecord, orderId: string, options: { revision?: number | undefined; ip?: string | undefined } = {}) {
     const { order, access, revision } = await readableRevision(user, orderId, options.revision);
-    const view = viewOf(revision, { showCosts: true });
+    const view = await viewOf(revision, { showCosts: true });
     const readerSides = sidesOfUser(access, user.id);
     const bytes = await renderReportPdf(
       {
@@ -671,7 +717,7 @@ export function createReportsService(deps: ReportsServiceDeps) {
   /** The PDF for a guest: the latest revision, costs as the link allows. */
   async function sharedPdf(token: string, options: { ip?: string | undefined } = {}) {
     const { link, order, revision } = await liveLink(token);
-    const view = viewOf(revision, { showCosts: Boolean(link.show_costs) });
+    const view = await viewOf(revision, { showCosts: Boolean(link.show_costs) });
     const bytes = await renderReportPdf({ revision: view, changes: await comparisonFor(order.id, revision), readerSide: null }, imageBytes);
     await recordView(db, {
       orderId: order.id,
@@ -753,7 +799,8 @@ export function createReportsService(deps: ReportsServiceDeps) {
   }
 
   async function ask(user: UserRecord, orderId: string, body: string) {
-    const { order, access, company, actor } = await orderFor(user, orderId);
+    const { order, access, actor } = await orderFor(user, orderId);
+    const company = await companyOf(order);
     if (!can(actor, 'report.read', { order: access })) throw notFound('report');
     if (!can(actor, 'question.ask', { order: access })) throw forbidden('Questions come from the agents and clients on the order.');
     const id = newId();
@@ -786,7 +833,8 @@ export function createReportsService(deps: ReportsServiceDeps) {
   }
 
   async function answer(user: UserRecord, orderId: string, questionId: string, body: string) {
-    const { order, access, company, actor } = await orderFor(user, orderId);
+    const { order, access, actor } = await orderFor(user, orderId);
+    const company = await companyOf(order);
     if (!can(actor, 'order.view', { order: access })) throw notFound('report');
     if (!can(actor, 'question.answer', { order: access })) throw forbidden('Answers come from the office or the inspector.');
     const question = await db('report_messages').where({ id: questionId, order_id: orderId }).whereNull('question_id').first();

@@ -167,6 +167,12 @@ export const reportKeys = {
 // Every read is logged as a view: fetch once per visit, not on every focus.
 const readOnce = { staleTime: Infinity, refetchOnWindowFocus: false, meta: { errorToast: false } } as const;
 
+/** ?revision=N on a report page: a published revision number, or null for the latest. */
+export function revisionParam(search: URLSearchParams): number | null {
+  const revision = Number(search.get('revision'));
+  return Number.isInteger(revision) && revision > 0 ? revision : null;
+}
+
 export function reportQueryOptions(orderId: string, revision: number | null) {
   return queryOptions({
     queryKey: reportKeys.report(orderId, revision),

@@ -11,9 +11,9 @@ import { areaOfPath, paths, type Area } from '@/config/paths';
 import { errorMessage, isApiError } from '@/lib/api-client';
 import { cn } from '@/lib/cn';
 import { useDocumentTitle } from '@/lib/use-document-title';
-import { pdfHref, reportQueryOptions, signedInMedia, type ReportRead } from '../api';
+import { pdfHref, reportQueryOptions, revisionParam, signedInMedia, type ReportRead } from '../api';
 import { PdfButton } from '../components/pdf-button';
-import { ReportDocument } from '../components/report-document';
+import { ReportDocument, ReportFirstView } from '../components/report-document';
 import { DisclosurePanel, QuestionsPanel, ShareLinksPanel, ViewsPanel } from '../components/report-panels';
 
 export const homes: Record<Area, { href: string; label: string }> = {
@@ -66,10 +66,48 @@ function RevisionSwitcher({ report, onChange }: { report: ReportRead; onChange: 
   );
 }
 
+/** What sits above the grade: notices for this reader, the PDF button and the revision switcher. */
+function reportTop(data: ReportRead, options: { area: Area; revision: number | null; onRevision: (revision: number | null) => void }) {
+  const latest = data.revisions[data.revisions.length - 1]?.number ?? data.revision.number;
+  const notices: ReactNode[] = [];
+  if (data.releaseHeld) {
+    notices.push(
+      <Alert key="held" tone="caution" title="Held until paid">
+        The buyer side cannot read this report yet: it is released the moment the inspection fee is paid.
+      </Alert>,
+    );
+  }
+  if (data.revision.number !== latest) {
+    notices.push(
+      <Alert key="old" tone="info" title={`You are reading revision ${data.revision.number}`}>
+        A newer revision was published.{' '}
+        <button type="button" className="font-semibold underline" onClick={() => options.onRevision(null)}>
+          Read the latest
+        </button>
+      </Alert>,
+    );
+  }
+  if (data.status === 'in_review' && options.area !== 'portal') {
+    notices.push(
+      <Alert key="review" tone="info" title="Reopened for a new revision">
+        Readers see this published revision until the next one is published.
+      </Alert>,
+    );
+  }
+  return {
+    notice: notices.length ? <div className="space-y-3">{notices}</div> : null,
+    headerActions: (
+      <>
+        <PdfButton href={pdfHref(data.orderId, options.revision)} />
+        <RevisionSwitcher report={data} onChange={options.onRevision} />
+      </>
+    ),
+  };
+}
+
 export function PublishedReport({ orderId, area }: { orderId: string; area: Area }) {
   const [params, setParams] = useSearchParams();
-  const revisionParam = Number(params.get('revision'));
-  const revision = Number.isInteger(revisionParam) && revisionParam > 0 ? revisionParam : null;
+  const revision = revisionParam(params);
   const report = useQuery(reportQueryOptions(orderId, revision));
   useDocumentTitle(report.data ? `Report · ${report.data.revision.snapshot.property.address.split(',')[0]}` : 'Report');
 
@@ -86,33 +124,6 @@ export function PublishedReport({ orderId, area }: { orderId: string; area: Area
     );
   }
   const data = report.data;
-  const latest = data.revisions[data.revisions.length - 1]?.number ?? data.revision.number;
-  const notices: ReactNode[] = [];
-  if (data.releaseHeld) {
-    notices.push(
-      <Alert key="held" tone="caution" title="Held until paid">
-        The buyer side cannot read this report yet: it is released the moment the inspection fee is paid.
-      </Alert>,
-    );
-  }
-  if (data.revision.number !== latest) {
-    notices.push(
-      <Alert key="old" tone="info" title={`You are reading revision ${data.revision.number}`}>
-        A newer revision was published.{' '}
-        <button type="button" className="font-semibold underline" onClick={() => setParams({}, { replace: true })}>
-          Read the latest
-        </button>
-      </Alert>,
-    );
-  }
-  if (data.status === 'in_review' && area !== 'portal') {
-    notices.push(
-      <Alert key="review" tone="info" title="Reopened for a new revision">
-        Readers see this published revision until the next one is published.
-      </Alert>,
-    );
-  }
-
   return (
     <div className="lg:grid lg:grid-cols-[minmax(0,1fr)_22rem] lg:items-start lg:gap-8">
       <div className="mx-auto w-full max-w-2xl">
@@ -121,13 +132,11 @@ export function PublishedReport({ orderId, area }: { orderId: string; area: Area
           changes={data.changes}
           readerSide={data.readerSide}
           media={signedInMedia}
-          notice={notices.length ? <div className="space-y-3">{notices}</div> : null}
-          headerActions={
-            <>
-              <PdfButton href={pdfHref(orderId, revision)} />
-              <RevisionSwitcher report={data} onChange={(n) => setParams(n ? { revision: String(n) } : {}, { replace: true })} />
-            </>
-          }
+          {...reportTop(data, {
+            area,
+            revision,
+            onRevision: (n) => setParams(n ? { revision: String(n) } : {}, { replace: true }),
+          })}
         />
       </div>
       <aside aria-label="About this report" className="mt-8 space-y-5 lg:mt-0">
@@ -140,6 +149,30 @@ export function PublishedReport({ orderId, area }: { orderId: string; area: Area
         {data.allowed.viewLog ? <ViewsPanel orderId={orderId} /> : null}
       </aside>
     </div>
+  );
+}
+
+/**
+ * The top of a reader's report page as the server renders it into the first HTML: the same
+ * header, back link and grade as the full page, so nothing moves when the app takes over.
+ */
+export function ReportFirstViewPage({ report, revision }: { report: ReportRead; revision: number | null }) {
+  return (
+    <>
+      <p className="mb-4 text-sm">
+        <Link to={homes.portal.href}>← {homes.portal.label}</Link>
+      </p>
+      <div className="lg:grid lg:grid-cols-[minmax(0,1fr)_22rem] lg:items-start lg:gap-8">
+        <div className="mx-auto w-full max-w-2xl">
+          <ReportFirstView
+            revision={report.revision}
+            changes={report.changes}
+            readerSide={report.readerSide}
+            {...reportTop(report, { area: 'portal', revision, onRevision: () => undefined })}
+          />
+        </div>
+      </div>
+    </>
   );
 }
 
