@@ -34,9 +34,11 @@ export async function up(knex: Knex): Promise<void> {
     t.bigInteger('size_bytes').notNullable();
     t.integer('width');
     t.integer('height');
-    t.float('duration_seconds');
+    // double, not float: knex's float is PostgreSQL's 4-byte real, which would round what SQLite's REAL
+    // keeps (SQLite gets the same `float` column either way).
+    t.double('duration_seconds');
     // Seconds into the run's video where a still was grabbed.
-    t.float('video_time');
+    t.double('video_time');
     // Footage where a still was taken, in core's stored unit (tenths of a millimetre).
     t.integer('footage');
     t.enu('origin', ['upload', 'frame_grab', 'photo', 'markup'], { useNative: false, enumName: 'media_origin' }).notNullable();

@@ -4,6 +4,7 @@ import * as m202612010002 from './202612010002_orders.ts';
 import * as m202612010003 from './202612010003_company_admin.ts';
 import * as m202612010004 from './202612010004_inspections.ts';
 import * as m202612010005 from './202612010005_reports.ts';
+import * as m202612020010 from './202612020010_indexes.ts';
 
 interface MigrationModule {
   up(knex: Knex): Promise<void>;
@@ -21,6 +22,7 @@ const migrations: [string, MigrationModule][] = [
   ['202612010003_company_admin', m202612010003],
   ['202612010004_inspections', m202612010004],
   ['202612010005_reports', m202612010005],
+  ['202612020010_indexes', m202612020010],
 ];
 
 export const migrationSource: Knex.MigrationSource<[string, MigrationModule]> = {

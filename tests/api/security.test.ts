@@ -1,6 +1,9 @@
+import { existsSync } from 'node:fs';
+import path from 'node:path';
 import request from 'supertest';
 import type { Express } from 'express';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { webDistDir } from '@underfoot/server';
 import { browserLikeAgent, createTestContext, type TestContext } from '../support/test-app.ts';
 
 interface RouteEntry {
@@ -91,6 +94,28 @@ describe('security', () => {
       expect(text).not.toMatch(/select .* from|insert into|sqlite|knex/i);
     }
   });
+
+  // The built app (npm test builds it first) must run under the policy: no inline script anywhere.
+  it.skipIf(!existsSync(path.join(webDistDir, 'index.html')))(
+    'the content security policy allows no inline script, and the built app needs none',
+    async () => {
+      const res = await request(ctx.app).get('/sign-in');
+      const policy = String(res.headers['content-security-policy']);
+      expect(policy).toMatch(/script-src 'self'(;|$)/);
+      expect(policy).not.toMatch(/script-src[^;]*unsafe-(inline|eval)/);
+      expect(policy).toMatch(/object-src 'none'/);
+      expect(policy).toMatch(/frame-ancestors 'none'/);
+      const html = res.text;
+      const scripts = [...html.matchAll(/<script\b[^>]*>([\s\S]*?)<\/script>/g)];
+      expect(scripts.length).toBeGreaterThan(0);
+      for (const [tag, body] of scripts) {
+        expect(tag).toMatch(/\ssrc="\/assets\//);
+        expect(body!.trim()).toBe('');
+      }
+      // No inline event handlers either (they count as inline script).
+      expect(html).not.toMatch(/\son[a-z]+="/i);
+    },
+  );
 
   it('cookies are HttpOnly and SameSite=Lax; Secure when served over HTTPS', async () => {
     // A first visit: the session (and its cookie) starts here.

@@ -2,6 +2,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import type { Express } from 'express';
+import knex from 'knex';
 import request from 'supertest';
 import type { Role } from '@underfoot/core';
 import type { Server } from 'node:http';
@@ -26,9 +27,10 @@ export interface TestContext {
   close(): Promise<void>;
 }
 
-/** A whole app on a temporary SQLite file, with the fake SMTP server on free loopback ports. */
+/** A whole app on a temporary SQLite file (or a PostgreSQL database of its own, see createScratchDatabase), with the fake SMTP server on free loopback ports. */
 export async function createTestContext(env: Record<string, string> = {}): Promise<TestContext> {
   const dataDir = mkdtempSync(path.join(tmpdir(), 'underfoot-api-'));
+  const database = process.env.DATABASE_URL ? await createScratchDatabase(process.env.DATABASE_URL) : undefined;
   const mail = await startFakeSmtp();
   const config = parseConfig({
     NODE_ENV: 'test',
@@ -37,6 +39,7 @@ export async function createTestContext(env: Record<string, string> = {}): Promi
     PASSWORD_HASH_COST: '10',
     MAIL_POLL_MS: '50',
     PUBLIC_URL: 'http://underfoot.test',
+    ...(database ? { DATABASE_URL: database.url } : {}),
     ...env,
   });
   const payments = await startFakePayments({
@@ -103,7 +106,37 @@ export async function createTestContext(env: Record<string, string> = {}): Promi
       await payments.close();
       await services.close();
       await mail.close();
+      await database?.drop();
       rmSync(dataDir, { recursive: true, force: true });
+    },
+  };
+}
+
+/**
+ * With DATABASE_URL set (`npm run test:pg`), each test context gets a fresh PostgreSQL database
+ * of its own, made and dropped through an admin connection to that URL.
+ */
+async function createScratchDatabase(adminUrl: string) {
+  const name = `underfoot_t_${crypto.randomUUID().replaceAll('-', '')}`;
+  const admin = () => knex({ client: 'pg', connection: adminUrl, pool: { min: 0, max: 1 } });
+  const creator = admin();
+  try {
+    await creator.raw('create database ??', [name]);
+  } finally {
+    await creator.destroy();
+  }
+  const url = new URL(adminUrl);
+  url.pathname = `/${name}`;
+  return {
+    url: url.toString(),
+    async drop() {
+      const dropper = admin();
+      try {
+        // FORCE: a connection the app left behind must not keep the database alive.
+        await dropper.raw('drop database if exists ?? with (force)', [name]);
+      } finally {
+        await dropper.destroy();
+      }
     },
   };
 }

@@ -10,3 +10,4 @@ export type {
   FakePaymentIntent,
   FakeRefund,
 } from './payments/payment-objects.ts';
+export { startFakeS3, type FakeS3, type FakeS3Options } from './storage/fake-s3.ts';

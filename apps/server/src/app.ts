@@ -27,7 +27,7 @@ import { paymentsRouter, paymentWebhookRouter } from './modules/payments/payment
 import { createPaymentsService } from './modules/payments/payments.service.ts';
 import { reportsRouter } from './modules/reports/reports.router.ts';
 import { createReportsService } from './modules/reports/reports.service.ts';
-import { reportFirstView } from './modules/reports/report-first-view.ts';
+import { FIRST_VIEW_BOOT_PATH, reportFirstView } from './modules/reports/report-first-view.ts';
 import type { Services } from './services.ts';
 import { inspectionsRouter } from './modules/inspections/inspections.router.ts';
 import { createInspectionsService } from './modules/inspections/inspections.service.ts';
@@ -148,13 +148,9 @@ export function createApp(config: Config, services: Services): Express {
 
   if (existsSync(path.join(webDistDir, 'index.html'))) {
     app.use(express.static(webDistDir, { index: false, maxAge: '1h', setHeaders: immutableAssets }));
-    app.get(
-      '/portal/reports/:orderId',
-      sessions,
-      passport.initialize(),
-      passport.session(),
-      reportFirstView({ reports, webDistDir, serverEntry: reportFirstViewEntry, log: logger }),
-    );
+    const firstView = reportFirstView({ reports, webDistDir, serverEntry: reportFirstViewEntry, log: logger });
+    app.get('/portal/reports/:orderId', sessions, passport.initialize(), passport.session(), firstView.page);
+    app.get(FIRST_VIEW_BOOT_PATH, firstView.boot);
     // Client-side routes: every other GET gets the app shell.
     app.get('/{*splat}', (_req, res) => {
       res.set('Cache-Control', 'no-cache').sendFile(path.join(webDistDir, 'index.html'));

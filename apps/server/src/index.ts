@@ -6,6 +6,7 @@ export { hashPassword } from './modules/auth/passwords.ts';
 export { backupDataDir, restoreDataDir, type BackupManifest } from './ops/backup.ts';
 export { ingestStill, renderMarkedUp } from './modules/media/image-pipeline.ts';
 export { createLocalDiskStorage } from './storage/local-disk-storage.ts';
+export { createS3Storage } from './storage/s3-storage.ts';
 export type { MediaStorage } from './storage/media-storage.ts';
 export { createReportsService, type ReportsService } from './modules/reports/reports.service.ts';
 export { findUserById } from './modules/auth/users.repo.ts';

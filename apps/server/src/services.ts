@@ -8,7 +8,9 @@ import { createSessionStore } from './http/session.ts';
 import { createMailTransport, OutboxWorker } from './modules/mail/outbox.worker.ts';
 import { createPaymentClient } from './modules/payments/payment-provider.ts';
 import type { MediaStorage } from './storage/media-storage.ts';
-import { createLocalDiskStorage, sweepIncoming } from './storage/local-disk-storage.ts';
+import { createLocalDiskStorage, processIncomingDir, releaseIncoming, sweepIncoming } from './storage/local-disk-storage.ts';
+import { createS3Storage } from './storage/s3-storage.ts';
+import { sweepOrphanMedia } from './modules/media/media-sweep.ts';
 
 /** The long-lived parts the app runs on; built once per process (or per test). */
 export interface Services {
@@ -48,15 +50,27 @@ export async function createServices(config: Config, options: ServiceOptions = {
   const usingFake = !config.mail.smtpUrl;
   const fake = options.fakeMail ?? { host: '127.0.0.1', smtpPort: config.mail.fakeSmtpPort, httpPort: config.mail.fakeSmtpHttpPort };
   const transport = createMailTransport({ smtpUrl: config.mail.smtpUrl, fakeSmtpHost: fake.host, fakeSmtpPort: fake.smtpPort });
-  const mail = new OutboxWorker(db, transport, config.mail.from, logger, config.mail.pollMs);
+  const mail = new OutboxWorker(db, transport, config.mail.from, logger, config.mail.pollMs, config.mail.retryBaseMs);
   if (options.startMailWorker !== false) mail.start();
 
   const sessionStore = createSessionStore(db, config);
   await sessionStore.ready;
 
-  const storage = createLocalDiskStorage(config.media.dir);
-  // Uploads cut off by a crash or restart leave temporary files; clear the old ones.
-  void sweepIncoming(storage).catch((err: unknown) => logger.warn({ err }, 'could not sweep unfinished uploads'));
+  const storage = config.media.s3
+    ? createS3Storage({ ...config.media.s3, incomingDir: processIncomingDir(config.media.dir) })
+    : createLocalDiskStorage(config.media.dir);
+  // Uploads cut off by a crash or restart leave temporary files: gone before the first request.
+  try {
+    const swept = await sweepIncoming(storage);
+    if (swept > 0) logger.info({ swept }, 'removed unfinished uploads left by a stopped server');
+  } catch (err) {
+    logger.warn({ err }, 'could not sweep unfinished uploads');
+  }
+  // Stored files no row names (a crash between the file and its row) go in the background; the tree may be large.
+  const mediaSweep = sweepOrphanMedia(db, storage).then(
+    (removed) => logger.info({ removed: removed.length }, 'media sweep done: removed stored files no row names'),
+    (err: unknown) => logger.warn({ err }, 'could not sweep stored files no row names'),
+  );
 
   return {
     db,
@@ -67,6 +81,8 @@ export async function createServices(config: Config, options: ServiceOptions = {
     fakeMailApiUrl: usingFake && config.env !== 'production' ? `http://${fake.host}:${fake.httpPort}` : undefined,
     storage,
     async close() {
+      await mediaSweep;
+      await releaseIncoming(storage);
       await mail.stop();
       await db.destroy();
     },

@@ -30,16 +30,21 @@ export class KnexRateLimitStore implements Store {
   async increment(key: string): Promise<IncrementResponse> {
     const k = this.key(key);
     const now = Date.now();
+    const nowText = new Date(now).toISOString();
     const freshReset = new Date(now + this.windowMs).toISOString();
-    return this.db.transaction(async (trx) => {
-      const row = await trx('rate_limits').where({ key: k }).first();
-      if (!row || new Date(row.reset_at).getTime() <= now) {
-        await trx('rate_limits').insert({ key: k, hits: 1, reset_at: freshReset }).onConflict('key').merge();
-        return { totalHits: 1, resetTime: new Date(freshReset) };
-      }
-      await trx('rate_limits').where({ key: k }).increment('hits', 1);
-      return { totalHits: row.hits + 1, resetTime: new Date(row.reset_at) };
-    });
+    // One statement counts the hit and reads the count back. Read-then-write would let hits arriving at
+    // the same moment on PostgreSQL (several connections) read the same count and all pass; SQLite and
+    // PostgreSQL both take INSERT … ON CONFLICT DO UPDATE … RETURNING. ISO times compare as text.
+    const rows: { hits: number | string; reset_at: string }[] = await this.db('rate_limits')
+      .insert({ key: k, hits: 1, reset_at: freshReset })
+      .onConflict('key')
+      .merge({
+        hits: this.db.raw('case when rate_limits.reset_at <= ? then 1 else rate_limits.hits + 1 end', [nowText]),
+        reset_at: this.db.raw('case when rate_limits.reset_at <= ? then excluded.reset_at else rate_limits.reset_at end', [nowText]),
+      })
+      .returning(['hits', 'reset_at']);
+    const row = rows[0]!;
+    return { totalHits: Number(row.hits), resetTime: new Date(row.reset_at) };
   }
 
   async decrement(key: string): Promise<void> {

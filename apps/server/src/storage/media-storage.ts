@@ -22,15 +22,17 @@ export interface MediaStorage {
   stat(key: string): Promise<{ size: number } | null>;
   /** Remove a key; removing a missing key is not an error. */
   delete(key: string): Promise<void>;
+  /** Every stored key under a prefix with when it was last written (the start-up sweep for files no row names). */
+  list(prefix: string): AsyncIterable<{ key: string; modifiedAt: Date }>;
   /**
    * A folder for uploads in progress, on the same disk as the store where possible
-   * (so `putFile` is a rename). Files left here by a crash are swept at start.
+   * (so `putFile` is a rename). Each process has its own; what a crash leaves is swept at start.
    */
   readonly incomingDir: string;
 }
 
 /** Keys are lower-case ids, slashes and one extension: nothing a client can turn into a path. */
-const KEY_PATTERN = /^[a-z0-9-]+(\/[a-z0-9-]+)*(\.[a-z0-9]{2,5})?$/;
+export const KEY_PATTERN = /^[a-z0-9-]+(\/[a-z0-9-]+)*(\.[a-z0-9]{2,5})?$/;
 
 export function assertSafeKey(key: string): void {
   if (!KEY_PATTERN.test(key) || key.length > 300) throw new Error(`unsafe storage key: ${key}`);

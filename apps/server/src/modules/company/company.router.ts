@@ -1,5 +1,4 @@
 import { Router, type RequestHandler } from 'express';
-import multer from 'multer';
 import {
   auditQuerySchema,
   can,
@@ -11,6 +10,7 @@ import {
 } from '@underfoot/core';
 import { actorOf, currentUser, requireCompanyPermission, requireSignIn } from '../../http/auth-guards.ts';
 import { forbidden, HttpError, parseInput, unauthorized } from '../../http/errors.ts';
+import { singleFileUpload } from '../media/upload.ts';
 import type { CompanyService } from './company.service.ts';
 import { MAX_LOGO_BYTES } from './logo-image.ts';
 
@@ -28,27 +28,9 @@ const readPriceBook: RequestHandler = (req, _res, next) => {
   next(allowed ? undefined : forbidden());
 };
 
-// A logo is small: held in memory, one file, no other fields.
-const logoUpload = multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_LOGO_BYTES, files: 1, fields: 0, parts: 1 } });
-
-const receiveLogo: RequestHandler = (req, res, next) => {
-  logoUpload.single('logo')(req, res, (err: unknown) => {
-    if (!err) return next();
-    if (err instanceof multer.MulterError) {
-      if (err.code === 'LIMIT_FILE_SIZE') {
-        return next(
-          new HttpError(
-            413,
-            'file_too_large',
-            `The logo file is larger than ${MAX_LOGO_BYTES / 1024 / 1024} MB. Save a smaller copy and try again.`,
-          ),
-        );
-      }
-      return next(new HttpError(400, 'bad_upload', 'Send one picture file in the "logo" field, and nothing else.'));
-    }
-    next(err);
-  });
-};
+// A logo is small: held in memory, one file, no other fields. It is received like every upload (the one
+// place that checks file names and turns a broken or cut-off form into a 4xx problem rather than a 500).
+const receiveLogo = singleFileUpload({ field: 'logo', maxBytes: MAX_LOGO_BYTES, what: 'logo', fields: 0 });
 
 export function companyRouter(company: CompanyService): Router {
   const router = Router();

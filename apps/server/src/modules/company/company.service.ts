@@ -25,7 +25,7 @@ import {
   type CompanyRecord,
 } from './company.repo.ts';
 import { csvLine } from './csv.ts';
-import { activeBaseFee, findFeeItem, insertFeeItem, listFeeItems, setFeeOrder, updateFeeItem } from './fee-items.repo.ts';
+import { activeBaseFee, findFeeItem, insertFeeItem, listFeeItems, lockFeeList, setFeeOrder, updateFeeItem } from './fee-items.repo.ts';
 import { processLogo } from './logo-image.ts';
 import { loadPriceBook, savePriceBook } from './price-book.repo.ts';
 
@@ -212,6 +212,7 @@ export function createCompanyService(deps: CompanyServiceDeps) {
   /** Orders take the one active inspection fee; checked inside the saving transaction so two saves cannot both pass. */
   async function checkBaseFee(trx: Knex, companyId: string, item: Omit<FeeItem, 'id'>, exceptId?: string) {
     if (item.kind !== 'base' || !item.active) return;
+    await lockFeeList(trx, companyId);
     const other = await activeBaseFee(trx, companyId, exceptId);
     if (other) {
       throw badRequest('Some fields need attention.', [

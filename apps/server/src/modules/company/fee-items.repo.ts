@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 import type { FeeItem } from '@underfoot/core';
+import { isSqlite } from '../../db.ts';
 import { nowIso } from '../../lib/clock.ts';
 import { newId } from '../../lib/ids.ts';
 
@@ -49,6 +50,15 @@ export async function listFeeItems(db: Knex, companyId: string): Promise<FeeList
 export async function findFeeItem(db: Knex, companyId: string, id: string): Promise<FeeListItem | undefined> {
   // A fee list is a handful of rows; reading it whole keeps the order count in one place.
   return (await listFeeItems(db, companyId)).find((item) => item.id === id);
+}
+
+/**
+ * Inside a transaction, queue fee list changes of one company behind each other: on PostgreSQL two
+ * saves would otherwise both find no other inspection fee and both make one. SQLite runs one write
+ * transaction at a time anyway.
+ */
+export async function lockFeeList(trx: Knex, companyId: string): Promise<void> {
+  if (!isSqlite(trx)) await trx('companies').where({ id: companyId }).forUpdate().first('id');
 }
 
 export async function activeBaseFee(db: Knex, companyId: string, exceptId?: string): Promise<FeeListItem | undefined> {

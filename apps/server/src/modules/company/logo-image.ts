@@ -1,6 +1,7 @@
 import { fileTypeFromBuffer } from 'file-type';
 import sharp from 'sharp';
 import { HttpError } from '../../http/errors.ts';
+import { extraContentMessage, pictureProblem } from '../media/picture-structure.ts';
 
 /** Largest logo file accepted; a logo is a small picture, and the upload is held in memory. */
 export const MAX_LOGO_BYTES = 2 * 1024 * 1024;
@@ -34,6 +35,16 @@ export async function processLogo(upload: Buffer): Promise<ProcessedLogo> {
   if (upload.length === 0) throw new HttpError(400, 'empty_file', 'The file is empty. Choose the logo picture again.');
   const detected = await fileTypeFromBuffer(upload);
   if (!detected || !accepted.has(detected.mime)) throw unsupported();
+  // As for stills: a file cut off before the picture's end, or a picture with something else attached (a polyglot), is refused.
+  const structure = await pictureProblem(upload);
+  if (structure?.kind === 'cut_off') {
+    throw new HttpError(
+      422,
+      'unreadable_image',
+      'This picture is cut off: the file ends before the picture does. Save it again and retry.',
+    );
+  }
+  if (structure?.kind === 'extra_content') throw new HttpError(422, 'image_extra_content', extraContentMessage(structure.found));
   try {
     const { data, info } = await sharp(upload, { limitInputPixels: MAX_LOGO_PIXELS, failOn: 'error' })
       .rotate()

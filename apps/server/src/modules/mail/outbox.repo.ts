@@ -87,20 +87,23 @@ export async function markSent(db: Knex, id: number): Promise<void> {
   await db('mail_outbox').where({ id }).update({ status: 'sent', sent_at: nowIso(), locked_until: null, last_error: null });
 }
 
-/** Back off 5 s, 10 s, 20 s … up to 30 min; after MAX_ATTEMPTS (about half a day) give up and keep it as failed. */
+/**
+ * Back off 5 s, 10 s, 20 s … up to 30 min (the base is MAIL_RETRY_BASE_MS); after MAX_ATTEMPTS
+ * (about half a day at the default base) give up and keep it as failed.
+ */
 export const MAX_ATTEMPTS = 30;
-export function retryDelayMs(attempts: number): number {
-  return Math.min(5_000 * 2 ** Math.max(0, attempts - 1), 30 * 60_000);
+export function retryDelayMs(attempts: number, baseMs = 5_000): number {
+  return Math.min(baseMs * 2 ** Math.max(0, attempts - 1), 30 * 60_000);
 }
 
-export async function markAttemptFailed(db: Knex, message: OutboxMessage, error: string): Promise<void> {
+export async function markAttemptFailed(db: Knex, message: OutboxMessage, error: string, retryBaseMs = 5_000): Promise<void> {
   const attempts = message.attempts + 1;
   await db('mail_outbox')
     .where({ id: message.id })
     .update({
       attempts,
       status: attempts >= MAX_ATTEMPTS ? 'failed' : 'pending',
-      next_attempt_at: isoIn(retryDelayMs(attempts)),
+      next_attempt_at: isoIn(retryDelayMs(attempts, retryBaseMs)),
       locked_until: null,
       last_error: error.slice(0, 1000),
     });

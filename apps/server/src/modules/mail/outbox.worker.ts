@@ -39,6 +39,8 @@ export class OutboxWorker {
     private readonly from: string,
     private readonly log: Logger,
     private readonly pollMs: number,
+    /** First back-off after a failed send (config MAIL_RETRY_BASE_MS). */
+    private readonly retryBaseMs = 5_000,
   ) {}
 
   start(): void {
@@ -94,7 +96,7 @@ export class OutboxWorker {
         } catch (err) {
           const reason = err instanceof Error ? err.message : String(err);
           this.log.warn({ outboxId: message.id, reason }, 'mail send failed; will retry');
-          await markAttemptFailed(this.db, message, reason);
+          await markAttemptFailed(this.db, message, reason, this.retryBaseMs);
         }
       }
     }

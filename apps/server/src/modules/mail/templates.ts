@@ -181,6 +181,17 @@ export const mailTemplates = {
       after: ['If you did not ask for this, ignore this e-mail.'],
     }),
 
+  email_change_taken: (ctx: MailContext, v: { signInUrl: string; resetUrl: string }) =>
+    layout(ctx, 'Someone tried to move an Underfoot account to this address', {
+      greeting: 'Hello,',
+      paragraphs: [
+        'Someone signed in to Underfoot asked to use this e-mail address for their account. This address already has an account of its own, so nothing has changed and nothing will.',
+        'If you have forgotten your password, you can reset it from the sign-in page.',
+      ],
+      action: { label: 'Sign in', url: v.signInUrl },
+      after: [`Reset your password: ${v.resetUrl}`, 'If you do not know why you got this, you can ignore it.'],
+    }),
+
   email_change_requested: (ctx: MailContext, v: { name: string; newEmail: string }) =>
     layout(ctx, 'Your Underfoot sign-in address is about to change', {
       greeting: `Hello ${v.name},`,

@@ -1,7 +1,9 @@
+import { readFile } from 'node:fs/promises';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import sharp, { type Metadata } from 'sharp';
 import { renderMarkupSvg, type Markup } from '@underfoot/core';
+import { extraContentMessage, pictureProblem } from './picture-structure.ts';
 
 /*
  * Text in SVG overlays is drawn by librsvg through fontconfig, which needs a config
@@ -25,7 +27,7 @@ export const stillTypes = new Map([
 
 export class ImageRefused extends Error {
   constructor(
-    public readonly code: 'image_too_large' | 'image_damaged',
+    public readonly code: 'image_too_large' | 'image_damaged' | 'image_extra_content',
     message: string,
   ) {
     super(message);
@@ -65,6 +67,11 @@ export async function ingestStill(
       `This picture is ${header.width} × ${header.height} pixels; pictures up to ${Math.round(limits.maxPixels / 1_000_000)} megapixels are accepted.`,
     );
   }
+  // The decoder forgives a missing end chunk and ignores what follows the picture; a cut-off file or a polyglot is refused here.
+  const structure = await pictureProblem(await readFile(inputPath));
+  if (structure?.kind === 'cut_off')
+    throw new ImageRefused('image_damaged', 'This picture is cut off: the file ends before the picture does.');
+  if (structure?.kind === 'extra_content') throw new ImageRefused('image_extra_content', extraContentMessage(structure.found));
   try {
     const display = await sharp(inputPath, { limitInputPixels: limits.maxPixels })
       .rotate()

@@ -37,6 +37,13 @@ const videoTypes: Record<string, { container: 'mp4' | 'mov' | 'webm'; mime: stri
   webm: { container: 'webm', mime: 'video/webm', ext: 'webm' },
 };
 
+/**
+ * The largest picture a video may declare, a side. Cameras record at most 8K: 7680 × 4320
+ * (ITU-R BT.2020, SMPTE ST 2036-1), or 8192 wide in DCI 8K. A larger claim is a bomb aimed at
+ * the players that will open the file.
+ */
+const MAX_VIDEO_SIDE = 8192;
+
 const optionalNumber = (schema: z.ZodType<number>) =>
   z.preprocess((v) => (v === undefined || v === '' || v === null ? null : typeof v === 'string' ? Number(v) : v), schema.nullable());
 
@@ -93,6 +100,13 @@ export function createMediaService(deps: { db: Knex; storage: MediaStorage; limi
         if (err instanceof VideoDamaged)
           throw new HttpError(422, 'video_damaged', `${err.message} Nothing was kept; upload the video again.`);
         throw err;
+      }
+      if ((probe.width ?? 0) > MAX_VIDEO_SIDE || (probe.height ?? 0) > MAX_VIDEO_SIDE) {
+        throw new HttpError(
+          413,
+          'video_too_large',
+          `This video says its picture is ${probe.width} × ${probe.height} pixels; videos up to ${MAX_VIDEO_SIDE} pixels a side are accepted. Nothing was kept.`,
+        );
       }
       const id = newId();
       const key = `orders/${orderId}/${id}.${type.ext}`;

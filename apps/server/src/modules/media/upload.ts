@@ -11,16 +11,41 @@ export function sizeInWords(bytes: number): string {
 }
 
 /**
+ * Folder separators: "/" and "\\", their percent-encoded forms, and the look-alikes that a
+ * "best fit" conversion to a Windows code page turns back into them (full-width solidus and
+ * reverse solidus U+FF0F, U+FF3C; division slash U+2215).
+ */
+const FOLDER_SEPARATOR = /[/\\\u2215\uff0f\uff3c]|%(2f|5c)/i;
+/**
+ * Control characters (C0, DEL, C1, and an encoded NUL) and the invisible marks that reorder or
+ * break a line of text: the bidirectional controls of Unicode UAX #9 (U+061C, U+200E, U+200F,
+ * U+202A–U+202E, U+2066–U+2069) and the line and paragraph separators U+2028, U+2029. A
+ * right-to-left override makes "photo\u202egnp.exe" read as "photoexe.png".
+ */
+// eslint-disable-next-line no-control-regex -- control characters are what is refused
+const HIDDEN_CHARACTER = /[\u0000-\u001f\u007f-\u009f\u061c\u200e\u200f\u2028-\u202e\u2066-\u2069]|%00/i;
+// eslint-disable-next-line no-control-regex -- the same set, to show each one as an escape
+const HIDDEN_CHARACTERS = /[\u0000-\u001f\u007f-\u009f\u061c\u200e\u200f\u2028-\u202e\u2066-\u2069]/g;
+
+/** A refused name as it can safely be shown back: hidden characters as escapes, at most 80 characters. */
+function shownName(name: string): string {
+  const visible = name.replace(HIDDEN_CHARACTERS, (c) => `\\u${c.charCodeAt(0).toString(16).toUpperCase().padStart(4, '0')}`);
+  return visible.length > 80 ? `${visible.slice(0, 80)}…` : visible;
+}
+
+/**
  * A name a phone or browser gives a file is shown to people, never used as a path. One
  * that carries a folder ("../../etc/passwd", "C:\\x") or control characters is refused:
- * something is trying to write where it should not.
+ * something is trying to write where it should not, or to pass one file type off as another.
  */
 export function fileNameProblem(name: string): string | null {
-  // eslint-disable-next-line no-control-regex -- control characters are what is refused
-  if (/[/\\]/.test(name) || /[\u0000-\u001f\u007f]/.test(name) || name === '.' || name === '..') {
-    return 'The file name contains a folder path or control characters. Rename the file and try again.';
+  if (FOLDER_SEPARATOR.test(name) || name === '.' || name === '..') {
+    return `The file name “${shownName(name)}” contains a folder path. Rename the file to a plain name (like photo.jpg) and try again.`;
   }
-  if (name.length > 255) return 'The file name is longer than 255 characters. Rename the file and try again.';
+  if (HIDDEN_CHARACTER.test(name)) {
+    return `The file name “${shownName(name)}” contains control or invisible characters. Rename the file and try again.`;
+  }
+  if (name.length > 255) return `The file name is ${name.length} characters long; up to 255 are accepted. Rename the file and try again.`;
   return null;
 }
 
@@ -39,7 +64,19 @@ function uploadProblem(err: unknown, what: string, maxBytes: number): unknown {
     }
   }
   const message = (err as Error)?.message ?? '';
-  if (/unexpected end of form|request aborted|request closed|premature close/i.test(message)) {
+  // busboy cannot read a part header holding raw control characters; in an upload the part header a person controls is the file name.
+  if (/malformed part header/i.test(message)) {
+    return new HttpError(
+      400,
+      'unsafe_file_name',
+      `The file name could not be read: it contains control characters, or the form around the ${what} is broken. Rename the file and try again.`,
+    );
+  }
+  // A body that stops early (busboy) or a connection that goes away (Node's "aborted", ECONNRESET), whichever is noticed first.
+  if (
+    /unexpected end of (form|file)|aborted|request closed|premature close/i.test(message) ||
+    (err as NodeJS.ErrnoException)?.code === 'ECONNRESET'
+  ) {
     return new HttpError(400, 'upload_incomplete', `The ${what} upload was cut off before it finished. Nothing was kept; try again.`);
   }
   if (/boundary|multipart|malformed/i.test(message)) {
@@ -51,25 +88,39 @@ function uploadProblem(err: unknown, what: string, maxBytes: number): unknown {
 /**
  * One file in one named field, streamed to a temporary file on the storage's disk
  * (multer's DiskStorage: never held in memory), with a size limit. The handler
- * after it takes the temporary file over or removes it.
+ * after it takes the temporary file over or removes it. Without `incomingDir` the
+ * file is held in memory (for small files only: the company logo), so every upload
+ * is received here, with the same name checks and the same problems.
  */
-export function singleFileUpload(options: { incomingDir: string; field: string; maxBytes: number; what: string }): RequestHandler {
+export function singleFileUpload(options: {
+  incomingDir?: string;
+  field: string;
+  maxBytes: number;
+  what: string;
+  /** Text fields allowed beside the file. */
+  fields?: number;
+}): RequestHandler {
+  const fields = options.fields ?? 12;
   // multer 2 passes these buffer sizes to busboy; its type definitions do not list them yet.
   const settings: multer.Options & { highWaterMark?: number; fileHwm?: number } = {
-    storage: multer.diskStorage({
-      destination: options.incomingDir,
-      filename: (_req, _file, callback) => callback(null, `${randomUUID()}.upload`),
-    }),
+    storage: options.incomingDir
+      ? multer.diskStorage({
+          destination: options.incomingDir,
+          filename: (_req, _file, callback) => callback(null, `${randomUUID()}.upload`),
+        })
+      : multer.memoryStorage(),
     // Keep any folder part of the client's file name, so it can be refused rather than silently cut off.
     preservePath: true,
-    limits: { fileSize: options.maxBytes, files: 1, fields: 12, fieldSize: 2000, parts: 14, headerPairs: 40 },
+    // Browsers send the file name as raw UTF-8 (WHATWG multipart/form-data); busboy would read it as Latin-1.
+    defParamCharset: 'utf8',
+    limits: { fileSize: options.maxBytes, files: 1, fields, fieldSize: 2000, parts: fields + 2, headerPairs: 40 },
     // Larger buffers than busboy's 16 KB default: far fewer chunks to pass along for a video of hundreds of MB,
     // still a bounded amount of memory per upload.
     highWaterMark: 1024 * 1024,
     fileHwm: 1024 * 1024,
     fileFilter: (_req, file, callback) => {
       const problem = fileNameProblem(file.originalname);
-      if (problem) callback(new HttpError(400, 'unsafe_file_name', problem));
+      if (problem) callback(new HttpError(400, 'unsafe_file_name', problem, [{ path: options.field, message: problem }]));
       else callback(null, true);
     },
   };

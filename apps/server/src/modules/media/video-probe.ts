@@ -140,6 +140,7 @@ const TRACK_ENTRY = 0xae;
 const VIDEO = 0xe0;
 const PIXEL_WIDTH = 0xb0;
 const PIXEL_HEIGHT = 0xba;
+const VOID = 0xec;
 
 interface Element {
   id: number;
@@ -241,6 +242,21 @@ async function probeWebm(file: FileHandle, fileSize: number): Promise<VideoProbe
     offset = end;
   }
   if (!sawCluster) throw new VideoDamaged('The video holds no picture data (the file may have been cut off).');
+  // After a segment of known size only more EBML may follow (another header and segment, or Void), each whole.
+  // Anything else (a web page, an archive) rode along with the video, and the video is served as it came.
+  if (segment.size !== null) {
+    let after = dataEnd;
+    while (after < fileSize) {
+      const header = elementHeader(await readAt(file, after, 12), 0);
+      // A further segment of unknown size (a live recording) cannot be checked past, as above.
+      if (header?.id === SEGMENT && header.size === null) break;
+      const end = header && header.size !== null ? after + header.length + header.size : Infinity;
+      if (!header || ![EBML_HEADER, SEGMENT, VOID].includes(header.id) || end > fileSize) {
+        throw new VideoDamaged('The video file has something after its end that is not video.');
+      }
+      after = end;
+    }
+  }
   // Duration is in units of the timecode scale (nanoseconds per unit; 1,000,000 = milliseconds by default).
   if (rawDuration !== null) durationSeconds = Math.round(((rawDuration * timecodeScale) / 1e9) * 1000) / 1000;
   return { durationSeconds, width, height };

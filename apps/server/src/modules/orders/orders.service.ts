@@ -314,6 +314,8 @@ export function createOrdersService(deps: OrdersServiceDeps) {
     if (ids.length === 0) return new Map();
     const revisions = await db('report_revisions').whereIn('order_id', ids).orderBy('number').select('order_id', 'grade');
     const latest = new Map<string, string>(revisions.map((r) => [r.order_id as string, r.grade as string]));
+    // None published (the office queue): an empty IN list would read every party row.
+    if (latest.size === 0) return new Map();
     const partyRows = await db('order_parties')
       .whereIn('order_id', [...latest.keys()])
       .select('order_id', 'user_id', 'party_role');

@@ -147,9 +147,14 @@ export function createPaymentsService(deps: PaymentsServiceDeps) {
     }
     let mailed = false;
     const outcome = await db.transaction(async (trx) => {
-      const seen = await trx('payment_events').where({ event_id: event.id }).first();
-      if (seen) return { duplicate: true };
-      await trx('payment_events').insert({ event_id: event.id, type: event.type, received_at: nowIso() });
+      // One statement claims the event id: on PostgreSQL a copy arriving at the same moment waits for
+      // this transaction and then finds the id taken, instead of failing on the primary key.
+      const claimed = await trx('payment_events')
+        .insert({ event_id: event.id, type: event.type, received_at: nowIso() })
+        .onConflict('event_id')
+        .ignore()
+        .returning('event_id');
+      if (claimed.length === 0) return { duplicate: true };
       if (event.type === 'checkout.session.completed' || event.type === 'checkout.session.async_payment_succeeded') {
         mailed = await markPaid(trx, event.data.object);
       } else if (event.type === 'checkout.session.expired') {

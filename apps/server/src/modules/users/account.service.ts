@@ -76,23 +76,34 @@ export function createAccountService(deps: AccountServiceDeps) {
     if (newEmail === user.email) {
       throw badRequest('Some fields need attention.', [{ path: 'newEmail', message: 'This is already your e-mail address.' }]);
     }
-    if (await findUserByEmail(db, newEmail)) {
-      throw badRequest('Some fields need attention.', [{ path: 'newEmail', message: 'This address already has an Underfoot account.' }]);
-    }
+    // An address that already has an account gets the same answer here (the answer must not say
+    // who has an account); its owner is told by e-mail instead, and the change can never complete.
+    const taken = Boolean(await findUserByEmail(db, newEmail));
     const brand = await deps.mailBrand(user.companyId);
     await db.transaction(async (trx) => {
       const token = await issueEmailChange(trx, user.id, newEmail);
-      await enqueueMail(trx, {
-        companyId: user.companyId,
-        ...brand,
-        to: newEmail,
-        template: 'email_change_confirm',
-        vars: {
-          name: user.name,
-          url: `${publicUrl}/account/confirm-email?token=${token}`,
-          validHours: EMAIL_CHANGE_LIFETIME_MS / 3_600_000,
-        },
-      });
+      await enqueueMail(
+        trx,
+        taken
+          ? {
+              companyId: user.companyId,
+              ...brand,
+              to: newEmail,
+              template: 'email_change_taken',
+              vars: { signInUrl: `${publicUrl}/sign-in`, resetUrl: `${publicUrl}/forgot-password` },
+            }
+          : {
+              companyId: user.companyId,
+              ...brand,
+              to: newEmail,
+              template: 'email_change_confirm',
+              vars: {
+                name: user.name,
+                url: `${publicUrl}/account/confirm-email?token=${token}`,
+                validHours: EMAIL_CHANGE_LIFETIME_MS / 3_600_000,
+              },
+            },
+      );
       // The current address hears about it too, in case someone else is at the keyboard.
       await enqueueMail(trx, {
         companyId: user.companyId,

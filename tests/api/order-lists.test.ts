@@ -1,0 +1,131 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { gradeInfo } from '@underfoot/core';
+import { insertOrder } from '../support/inspection-fixtures.ts';
+import { browserLikeAgent, createTestContext, type TestContext } from '../support/test-app.ts';
+
+/*
+ * The order lists pick a page of ids first and read only those rows (orders.repo.ts listOrders):
+ * the page, its order and the total must be what the whole list would give.
+ */
+let ctx: TestContext;
+
+interface ListBody {
+  total: number;
+  orders: { id: string; street: string; grade: string | null }[];
+}
+
+async function signedIn(email: string) {
+  const client = await browserLikeAgent(ctx.app);
+  expect((await client.signIn(email)).status).toBe(200);
+  return client;
+}
+
+async function list(client: Awaited<ReturnType<typeof signedIn>>, query: string): Promise<ListBody> {
+  const res = await client.agent.get(`/api/orders?${query}`).expect(200);
+  return res.body as ListBody;
+}
+
+/** An order with its own deadline, street and creation time. */
+async function order(options: { deadline: string; street: string; createdAt: string; status?: 'requested' | 'scheduled' | 'published' }) {
+  const id = await insertOrder(ctx, { status: options.status ?? 'requested' });
+  const { db } = ctx.services;
+  await db('orders').where({ id }).update({ contingency_deadline: options.deadline, created_at: options.createdAt });
+  const row = await db('orders').where({ id }).first('property_id');
+  await db('properties').where({ id: row.property_id }).update({ street: options.street });
+  return id;
+}
+
+const created = (minute: number) => `2026-11-01T10:${String(minute).padStart(2, '0')}:00.000Z`;
+
+beforeAll(async () => {
+  ctx = await createTestContext();
+});
+
+afterAll(async () => {
+  await ctx.close();
+});
+
+describe('order lists', () => {
+  it('pages through the whole list in the chosen order, with the total of all that match', async () => {
+    const orders = [
+      { deadline: '2099-03-05', street: '40 Heron Court', createdAt: created(1) },
+      { deadline: '2099-01-10', street: '7 Quarry Lane', createdAt: created(2) },
+      { deadline: '2099-02-20', street: '19 Ferry Lane', createdAt: created(3) },
+      { deadline: '2099-01-02', street: '3 Weir Avenue', createdAt: created(4) },
+      { deadline: '2099-02-01', street: '88 Mossbank Road', createdAt: created(5) },
+      { deadline: '2099-04-11', street: '5 Tannery Way', createdAt: created(6) },
+      { deadline: '2099-01-25', street: '61 Fennel Street', createdAt: created(7) },
+    ];
+    const ids = [];
+    for (const o of orders) ids.push(await order(o));
+    const office = await signedIn(ctx.users.office.email);
+
+    const expectPages = async (query: string, expected: string[]) => {
+      const seen: string[] = [];
+      for (let offset = 0; offset < expected.length + 3; offset += 3) {
+        const page = await list(office, `${query}&limit=3&offset=${offset}`);
+        expect(page.total).toBe(expected.length);
+        expect(page.orders.length).toBe(Math.max(0, Math.min(3, expected.length - offset)));
+        seen.push(...page.orders.map((o) => o.id));
+      }
+      expect(seen).toEqual(expected);
+    };
+    const byDeadline = ids.map((id, i) => ({ id, ...orders[i]! })).sort((a, b) => a.deadline.localeCompare(b.deadline));
+    await expectPages(
+      'sort=deadline&direction=asc',
+      byDeadline.map((o) => o.id),
+    );
+    await expectPages('sort=created&direction=desc', [...ids].reverse());
+    const byStreet = ids.map((id, i) => ({ id, ...orders[i]! })).sort((a, b) => b.street.localeCompare(a.street));
+    await expectPages(
+      'sort=address&direction=desc',
+      byStreet.map((o) => o.id),
+    );
+    // Search joins the property before the page is cut: the total counts only the matches.
+    const lanes = byDeadline.filter((o) => o.street.includes('Lane'));
+    await expectPages(
+      'q=lane&sort=deadline&direction=asc',
+      lanes.map((o) => o.id),
+    );
+  });
+
+  it('an agent sees each order they are on once, only in their own company, with the grade once released to their side', async () => {
+    const { db } = ctx.services;
+    const agent = await ctx.addUser('agent', 'lists.agent@example.com');
+    const both = await insertOrder(ctx, { partyUserId: agent.id, status: 'published' });
+    // The same agent on both sides of one order: two party rows, one order in the list.
+    await db('order_parties').insert({ order_id: both, user_id: agent.id, party_role: 'listing_agent', created_at: created(0) });
+    const requested = await insertOrder(ctx, { partyUserId: agent.id, status: 'requested' });
+    await insertOrder(ctx, { status: 'requested' });
+    const elsewhere = await ctx.addCompany('Elsewhere Drain Co');
+    await insertOrder(ctx, { companyId: elsewhere, partyUserId: agent.id, inspectorId: null });
+    await db('orders')
+      .where({ id: both })
+      .update({ released_to: JSON.stringify(['buyer']) });
+    await db('report_revisions').insert({
+      id: crypto.randomUUID(),
+      order_id: both,
+      number: 1,
+      kind: 'original',
+      note: '',
+      snapshot: '{}',
+      grade: 'maintain',
+      published_by: ctx.users.office.id,
+      published_at: created(30),
+    });
+
+    const client = await signedIn(agent.email);
+    const mine = await list(client, 'sort=deadline&direction=asc&limit=25');
+    expect(mine.total).toBe(2);
+    expect(mine.orders.map((o) => o.id).sort()).toEqual([both, requested].sort());
+    expect(mine.orders.find((o) => o.id === both)?.grade).toBe(gradeInfo.maintain.name);
+    expect(mine.orders.find((o) => o.id === requested)?.grade).toBeNull();
+    const second = await list(client, 'sort=deadline&direction=asc&limit=1&offset=1');
+    expect(second.total).toBe(2);
+    expect(second.orders).toHaveLength(1);
+
+    // Not yet released to the agent's side: no grade in the list.
+    await db('orders').where({ id: both }).update({ released_to: '[]' });
+    expect((await list(client, 'limit=25')).orders.find((o) => o.id === both)?.grade).toBeNull();
+  });
+});
