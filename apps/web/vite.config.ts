@@ -11,8 +11,8 @@ export default defineConfig({
   plugins: [
     react(),
     tailwindcss(),
-    // Until Inter arrives (or for a whole page on a slow line: fonts.css uses font-display: optional),
-    // text is set in a local font adjusted to Inter's measurements, so lines break alike and nothing jumps.
+    // Until Inter arrives, text is set in a local font adjusted to Inter's measurements, so lines
+    // break alike and little moves when it swaps in.
     FontaineTransform.vite({
       fallbacks: ['Roboto', 'Helvetica Neue', 'Arial', 'Liberation Sans'],
       resolvePath: (id) => new URL(`../../node_modules/${id}`, import.meta.url),

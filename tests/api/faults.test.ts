@@ -3,7 +3,6 @@ import { randomBytes, randomUUID } from 'node:crypto';
 import { once } from 'node:events';
 import { existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync, statSync, utimesSync, writeFileSync } from 'node:fs';
 import { request as httpRequest } from 'node:http';
-import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import Database from 'better-sqlite3';
@@ -13,6 +12,7 @@ import { insertOrder, sampleDocument } from '../support/inspection-fixtures.ts';
 import { filesUnder, sampleIsoVideo } from '../support/media-samples.ts';
 import { publishReport } from '../support/report-fixtures.ts';
 import { browserLikeAgent, createTestContext, TEST_PASSWORD, type TestContext } from '../support/test-app.ts';
+import { freePort } from '../support/free-port.ts';
 
 /*
  * Faults the product must come through whole: the mail server away for a while, payment
@@ -160,17 +160,6 @@ describe.skipIf(Boolean(process.env.DATABASE_URL))('the server killed (SIGKILL) 
 
   const dbFile = () => path.join(dataDir, 'underfoot.sqlite');
   const mediaDir = () => path.join(dataDir, 'media');
-
-  function freePort(): Promise<number> {
-    return new Promise((resolve, reject) => {
-      const server = createServer();
-      server.once('error', reject);
-      server.listen(0, '127.0.0.1', () => {
-        const { port } = server.address() as { port: number };
-        server.close(() => resolve(port));
-      });
-    });
-  }
 
   interface RunningServer {
     child: ChildProcess;

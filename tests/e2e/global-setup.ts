@@ -1,27 +1,16 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import type { TestProject } from 'vitest/node';
 import { chromiumPath } from './browser.ts';
+import { freePort } from '../support/free-port.ts';
 
 declare module 'vitest' {
   export interface ProvidedContext {
     baseUrl: string;
     mailApiUrl: string;
   }
-}
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer();
-    server.once('error', reject);
-    server.listen(0, '127.0.0.1', () => {
-      const { port } = server.address() as { port: number };
-      server.close(() => resolve(port));
-    });
-  });
 }
 
 // A fresh clone generates the demo's stills and video on first start (cached afterwards), which takes a minute on a busy 2-core machine.

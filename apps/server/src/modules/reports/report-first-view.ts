@@ -102,7 +102,16 @@ export function reportFirstView(deps: { reports: ReportsService; webDistDir: str
         : [];
     })
     .join('');
-  const beasties = new Beasties({ path: deps.webDistDir, publicPath: '/', logLevel: 'silent', pruneSource: false, inlineFonts: false });
+  const beasties = new Beasties({
+    path: deps.webDistDir,
+    publicPath: '/',
+    logLevel: 'silent',
+    pruneSource: false,
+    inlineFonts: false,
+    // Tailwind's spacing between children (`:where(.space-y-8 > :not(:last-child))`) is not matched
+    // against the page by beasties; without it the first view would sit tighter than the app.
+    allowRules: [/^:where\(/],
+  });
   const criticalCss = new LRUCache<string, Promise<string>>({ max: 50 });
   const criticalCssFor = (rootHtml: string) => {
     const key = selectorSignature(rootHtml);

@@ -125,29 +125,40 @@ export function PublishedReport({ orderId, area }: { orderId: string; area: Area
   }
   const data = report.data;
   return (
+    <ReportColumns
+      aside={
+        <aside aria-label="About this report" className="mt-8 space-y-5 lg:mt-0">
+          <p className="text-sm">
+            <Link to={orderHref(area, orderId)}>Order details</Link>
+          </p>
+          <DisclosurePanel orderId={orderId} orderingSide={data.revision.snapshot.orderingSide} allowed={data.allowed} />
+          <QuestionsPanel orderId={orderId} allowed={data.allowed} />
+          <ShareLinksPanel orderId={orderId} orderKind={data.revision.snapshot.kind} allowed={data.allowed} />
+          {data.allowed.viewLog ? <ViewsPanel orderId={orderId} /> : null}
+        </aside>
+      }
+    >
+      <ReportDocument
+        revision={data.revision}
+        changes={data.changes}
+        readerSide={data.readerSide}
+        media={signedInMedia}
+        {...reportTop(data, {
+          area,
+          revision,
+          onRevision: (n) => setParams(n ? { revision: String(n) } : {}, { replace: true }),
+        })}
+      />
+    </ReportColumns>
+  );
+}
+
+/** The report beside its panels on a desktop, one column on a phone (the first view has the same columns). */
+function ReportColumns({ children, aside }: { children: ReactNode; aside?: ReactNode }) {
+  return (
     <div className="lg:grid lg:grid-cols-[minmax(0,1fr)_22rem] lg:items-start lg:gap-8">
-      <div className="mx-auto w-full max-w-2xl">
-        <ReportDocument
-          revision={data.revision}
-          changes={data.changes}
-          readerSide={data.readerSide}
-          media={signedInMedia}
-          {...reportTop(data, {
-            area,
-            revision,
-            onRevision: (n) => setParams(n ? { revision: String(n) } : {}, { replace: true }),
-          })}
-        />
-      </div>
-      <aside aria-label="About this report" className="mt-8 space-y-5 lg:mt-0">
-        <p className="text-sm">
-          <Link to={orderHref(area, orderId)}>Order details</Link>
-        </p>
-        <DisclosurePanel orderId={orderId} orderingSide={data.revision.snapshot.orderingSide} allowed={data.allowed} />
-        <QuestionsPanel orderId={orderId} allowed={data.allowed} />
-        <ShareLinksPanel orderId={orderId} orderKind={data.revision.snapshot.kind} allowed={data.allowed} />
-        {data.allowed.viewLog ? <ViewsPanel orderId={orderId} /> : null}
-      </aside>
+      <div className="mx-auto w-full max-w-2xl">{children}</div>
+      {aside}
     </div>
   );
 }
@@ -162,16 +173,14 @@ export function ReportFirstViewPage({ report, revision }: { report: ReportRead; 
       <p className="mb-4 text-sm">
         <Link to={homes.portal.href}>← {homes.portal.label}</Link>
       </p>
-      <div className="lg:grid lg:grid-cols-[minmax(0,1fr)_22rem] lg:items-start lg:gap-8">
-        <div className="mx-auto w-full max-w-2xl">
-          <ReportFirstView
-            revision={report.revision}
-            changes={report.changes}
-            readerSide={report.readerSide}
-            {...reportTop(report, { area: 'portal', revision, onRevision: () => undefined })}
-          />
-        </div>
-      </div>
+      <ReportColumns>
+        <ReportFirstView
+          revision={report.revision}
+          changes={report.changes}
+          readerSide={report.readerSide}
+          {...reportTop(report, { area: 'portal', revision, onRevision: () => undefined })}
+        />
+      </ReportColumns>
     </>
   );
 }
