@@ -5,6 +5,7 @@ import * as m202612010003 from './202612010003_company_admin.ts';
 import * as m202612010004 from './202612010004_inspections.ts';
 import * as m202612010005 from './202612010005_reports.ts';
 import * as m202612020010 from './202612020010_indexes.ts';
+import * as m202612020020 from './202612020020_party_order_keys.ts';
 
 interface MigrationModule {
   up(knex: Knex): Promise<void>;
@@ -23,6 +24,7 @@ const migrations: [string, MigrationModule][] = [
   ['202612010004_inspections', m202612010004],
   ['202612010005_reports', m202612010005],
   ['202612020010_indexes', m202612020010],
+  ['202612020020_party_order_keys', m202612020020],
 ];
 
 export const migrationSource: Knex.MigrationSource<[string, MigrationModule]> = {

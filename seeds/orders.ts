@@ -306,6 +306,7 @@ export async function seedDemoOrders(db: Knex): Promise<void> {
         created_at: nowIso,
       });
       const orderingAgent = o.parties[0]![0];
+      const deadline = dayFromToday(o.deadlineIn);
       await trx('orders').insert({
         id: o.id,
         company_id: demoCompany.id,
@@ -313,7 +314,7 @@ export async function seedDemoOrders(db: Knex): Promise<void> {
         kind: o.kind,
         ordering_side: orderingSideOf(o.kind),
         status: o.status,
-        contingency_deadline: dayFromToday(o.deadlineIn),
+        contingency_deadline: deadline,
         preferred_dates: JSON.stringify([dayFromToday(Math.min(2, o.deadlineIn - 1))]),
         payer: o.payer,
         fee_total_cents: total,
@@ -332,7 +333,14 @@ export async function seedDemoOrders(db: Knex): Promise<void> {
         lines.map((f) => ({ order_id: o.id, fee_item_id: f.id, name: f.name, price_cents: f.priceCents })),
       );
       await trx('order_parties').insert(
-        o.parties.map(([who, role]) => ({ order_id: o.id, user_id: account(who), party_role: role, created_at: nowIso })),
+        o.parties.map(([who, role]) => ({
+          order_id: o.id,
+          company_id: demoCompany.id,
+          contingency_deadline: deadline,
+          user_id: account(who),
+          party_role: role,
+          created_at: nowIso,
+        })),
       );
       const events: { type: string; detail?: object }[] = [{ type: 'created', detail: { feeTotalCents: total } }];
       if (o.paid) events.push({ type: 'paid', detail: { amountCents: total } });

@@ -558,6 +558,7 @@ async function insertOrder(trx: Knex, report: DemoReport, nowIso: string) {
   });
   const orderingAgent = accountId(report.parties[0]![0]);
   const visit = dayFromToday(-report.daysAgo);
+  const deadline = dayFromToday(Math.max(3, 14 - report.daysAgo));
   await trx('orders').insert({
     id: report.id,
     company_id: demoCompany.id,
@@ -565,7 +566,7 @@ async function insertOrder(trx: Knex, report: DemoReport, nowIso: string) {
     kind: report.kind,
     ordering_side: orderingSideOf(report.kind),
     status: 'scheduled',
-    contingency_deadline: dayFromToday(Math.max(3, 14 - report.daysAgo)),
+    contingency_deadline: deadline,
     preferred_dates: JSON.stringify([visit]),
     payer: 'agent_now',
     fee_total_cents: total,
@@ -586,7 +587,14 @@ async function insertOrder(trx: Knex, report: DemoReport, nowIso: string) {
     price_cents: total,
   });
   await trx('order_parties').insert(
-    report.parties.map(([who, role]) => ({ order_id: report.id, user_id: accountId(who), party_role: role, created_at: nowIso })),
+    report.parties.map(([who, role]) => ({
+      order_id: report.id,
+      company_id: demoCompany.id,
+      contingency_deadline: deadline,
+      user_id: accountId(who),
+      party_role: role,
+      created_at: nowIso,
+    })),
   );
   await trx('order_events').insert([
     {

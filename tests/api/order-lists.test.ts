@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { gradeInfo } from '@underfoot/core';
-import { insertOrder } from '../support/inspection-fixtures.ts';
+import { gradeInfo, orderStatuses } from '@underfoot/core';
+import { addParties, insertOrder } from '../support/inspection-fixtures.ts';
 import { browserLikeAgent, createTestContext, type TestContext } from '../support/test-app.ts';
 
 /*
@@ -30,6 +30,7 @@ async function order(options: { deadline: string; street: string; createdAt: str
   const id = await insertOrder(ctx, { status: options.status ?? 'requested' });
   const { db } = ctx.services;
   await db('orders').where({ id }).update({ contingency_deadline: options.deadline, created_at: options.createdAt });
+  await db('order_parties').where({ order_id: id }).update({ contingency_deadline: options.deadline });
   const row = await db('orders').where({ id }).first('property_id');
   await db('properties').where({ id: row.property_id }).update({ street: options.street });
   return id;
@@ -94,7 +95,7 @@ describe('order lists', () => {
     const agent = await ctx.addUser('agent', 'lists.agent@example.com');
     const both = await insertOrder(ctx, { partyUserId: agent.id, status: 'published' });
     // The same agent on both sides of one order: two party rows, one order in the list.
-    await db('order_parties').insert({ order_id: both, user_id: agent.id, party_role: 'listing_agent', created_at: created(0) });
+    await addParties(ctx, both, [[agent.id, 'listing_agent']]);
     const requested = await insertOrder(ctx, { partyUserId: agent.id, status: 'requested' });
     await insertOrder(ctx, { status: 'requested' });
     const elsewhere = await ctx.addCompany('Elsewhere Drain Co');
@@ -127,5 +128,47 @@ describe('order lists', () => {
     // Not yet released to the agent's side: no grade in the list.
     await db('orders').where({ id: both }).update({ released_to: '[]' });
     expect((await list(client, 'limit=25')).orders.find((o) => o.id === both)?.grade).toBeNull();
+  });
+
+  it("an agent's list by deadline, read from their party rows, is the list the orders give", async () => {
+    // The portal's default list comes from the person's party rows, which carry each order's
+    // deadline (orders.repo.ts personPageByDeadline); naming every status takes the general path
+    // through the orders: the reference. Deadlines are often shared, so the visit time and id decide.
+    const { db } = ctx.services;
+    const busy = await ctx.addUser('agent', 'lists.busy@example.com');
+    const day = (n: number) => new Date(Date.UTC(2098, 0, 1) + n * 86_400_000).toISOString().slice(0, 10);
+    for (let i = 0; i < 120; i++) {
+      for (const who of [busy.id, ctx.users.client.id]) {
+        const id = await insertOrder(ctx, { partyUserId: who, status: 'requested' });
+        const deadline = day(Math.floor(i / 4));
+        await db('orders')
+          .where({ id })
+          .update({ contingency_deadline: deadline, window_start: i % 4 === 0 ? null : `${String(8 + (i % 3)).padStart(2, '0')}:00` });
+        await db('order_parties').where({ order_id: id }).update({ contingency_deadline: deadline });
+        // Now and then on both sides of one order: two party rows, one order.
+        if (who === busy.id && i % 10 === 0) await addParties(ctx, id, [[busy.id, 'listing_agent']]);
+      }
+    }
+    const client = await signedIn(busy.email);
+    const everyStatus = orderStatuses.map((s) => `status=${s}`).join('&');
+    const seen: string[] = [];
+    for (const [offset, limit] of [
+      [0, 25],
+      [25, 25],
+      [50, 7],
+      [57, 50],
+      [107, 25],
+      [130, 25],
+    ] as const) {
+      const query = `sort=deadline&direction=asc&limit=${limit}&offset=${offset}`;
+      const found = await list(client, query);
+      const reference = await list(client, `${everyStatus}&${query}`);
+      expect(found.total).toBe(120);
+      expect(reference.total).toBe(120);
+      expect(found.orders.map((o) => o.id)).toEqual(reference.orders.map((o) => o.id));
+      expect(found.orders).toHaveLength(Math.max(0, Math.min(limit, 120 - offset)));
+      seen.push(...found.orders.map((o) => o.id));
+    }
+    expect(new Set(seen).size).toBe(120);
   });
 });

@@ -2,7 +2,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { InspectionInput, PartyRole } from '@underfoot/core';
 import { phoneJpeg } from '../support/media-samples.ts';
-import { sampleDocument } from '../support/inspection-fixtures.ts';
+import { addParties, sampleDocument } from '../support/inspection-fixtures.ts';
 import { browserLikeAgent, createTestContext, type TestContext } from '../support/test-app.ts';
 
 /*
@@ -93,7 +93,7 @@ async function makeOrder(options: { kind?: 'pre_purchase' | 'pre_listing'; paid?
     [people.listingAgent.id, 'listing_agent'],
     [people.seller.id, 'seller'],
   ];
-  await db()('order_parties').insert(parties.map(([user_id, party_role]) => ({ order_id: orderId, user_id, party_role, created_at: now })));
+  await addParties(ctx, orderId, parties);
   return orderId;
 }
 
@@ -257,12 +257,7 @@ describe('who reads the report', () => {
     const { orderId } = await publishedOrder();
     const other = await makeOrder();
     await db()('order_parties').where({ order_id: other }).delete();
-    await db()('order_parties').insert({
-      order_id: other,
-      user_id: people.otherAgent.id,
-      party_role: 'buyers_agent',
-      created_at: new Date().toISOString(),
-    });
+    await addParties(ctx, other, [[people.otherAgent.id, 'buyers_agent']]);
     const nobody = [
       [await office(), crypto.randomUUID()],
       [await as(people.otherAgent.email), orderId],

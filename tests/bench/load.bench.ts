@@ -14,7 +14,7 @@ import { existsSync } from 'node:fs';
 import path from 'node:path';
 import type { InspectionInput } from '@underfoot/core';
 import { webDistDir } from '@underfoot/server';
-import { insertOrder, sampleDocument } from '../support/inspection-fixtures.ts';
+import { addParties, insertOrder, sampleDocument } from '../support/inspection-fixtures.ts';
 import { createTestContext, type TestContext } from '../support/test-app.ts';
 import { signedIn } from './report.bench.ts';
 
@@ -46,7 +46,7 @@ async function arrange(ctx: TestContext): Promise<{ cookie: string; orderId: str
   for (let i = 0; i < READERS; i++) {
     const orderId = orders[i % REPORTS]!;
     const user = await ctx.addUser('client', `reader-${i}@example.com`);
-    await db('order_parties').insert({ order_id: orderId, user_id: user.id, party_role: 'buyer', created_at: new Date().toISOString() });
+    await addParties(ctx, orderId, [[user.id, 'buyer']]);
     readers.push({ cookie: (await signedIn(ctx, user.email)).cookie, orderId });
   }
   return readers;

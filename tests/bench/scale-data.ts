@@ -437,6 +437,7 @@ export async function seedScale(ctx: TestContext, options: ScaleOptions = defaul
         createdMs,
         agentMayRead: false,
       });
+      const deadline = isoDate(createdMs + r.int(7, 17) * DAY_MS);
       orderRows.push([
         id,
         companyId,
@@ -444,7 +445,7 @@ export async function seedScale(ctx: TestContext, options: ScaleOptions = defaul
         kind,
         side,
         status,
-        isoDate(createdMs + r.int(7, 17) * DAY_MS),
+        deadline,
         JSON.stringify([isoDate(createdMs + 2 * DAY_MS), isoDate(createdMs + 3 * DAY_MS)]),
         payer,
         r.pick([29500, 32500, 36500, 41000, 45000]),
@@ -467,7 +468,7 @@ export async function seedScale(ctx: TestContext, options: ScaleOptions = defaul
       ];
       // Some buyer-side orders carry the listing agent too, and an occasional agent is on both sides.
       if (side === 'buyer' && r.chance(0.3)) parties.push([agents[pickAgent()]!, 'listing_agent']);
-      for (const [userId, role] of parties) partyRows.push([id, userId, role, createdAt]);
+      for (const [userId, role] of parties) partyRows.push([id, userId, role, createdAt, companyId, deadline]);
       const agentRoles = parties.filter(([u]) => u === ctx.users.agent.id).map(([, role]) => role);
       if (agentRoles.length > 0) {
         agentOrders++;
@@ -528,7 +529,7 @@ export async function seedScale(ctx: TestContext, options: ScaleOptions = defaul
     rows.order_parties = bulkInsert(
       conn,
       'order_parties',
-      ['order_id', 'user_id', 'party_role', 'created_at'],
+      ['order_id', 'user_id', 'party_role', 'created_at', 'company_id', 'contingency_deadline'],
       partyRows.filter((p) => {
         const key = `${p[0]}|${p[1]}|${p[2]}`;
         if (seenParty.has(key)) return false;

@@ -1,4 +1,4 @@
-import type { InspectionInput, OrderStatus } from '@underfoot/core';
+import type { InspectionInput, OrderStatus, PartyRole } from '@underfoot/core';
 import { feet, feetAndInches } from '@underfoot/core';
 import type { TestContext } from './test-app.ts';
 
@@ -44,13 +44,25 @@ export async function insertOrder(
     created_at: now,
     updated_at: now,
   });
-  await db('order_parties').insert({
-    order_id: orderId,
-    user_id: options.partyUserId ?? ctx.users.agent.id,
-    party_role: 'buyers_agent',
-    created_at: now,
-  });
+  await addParties(ctx, orderId, [[options.partyUserId ?? ctx.users.agent.id, 'buyers_agent']]);
   return orderId;
+}
+
+/** People on an order, each party row carrying the order's company and deadline as the app writes them. */
+export async function addParties(ctx: TestContext, orderId: string, parties: [userId: string, role: PartyRole][]): Promise<void> {
+  const { db } = ctx.services;
+  const order = await db('orders').where({ id: orderId }).first('company_id', 'contingency_deadline');
+  const now = new Date().toISOString();
+  await db('order_parties').insert(
+    parties.map(([user_id, party_role]) => ({
+      order_id: orderId,
+      company_id: order.company_id,
+      contingency_deadline: order.contingency_deadline,
+      user_id,
+      party_role,
+      created_at: now,
+    })),
+  );
 }
 
 /** A small recorded line: one cleanout, one run toward the main with two sections and three findings. */

@@ -1,6 +1,6 @@
 import { expect } from 'vitest';
 import type { OrderAccess, PartyRole, Side } from '@underfoot/core';
-import { insertOrder, sampleDocument } from './inspection-fixtures.ts';
+import { addParties, insertOrder, sampleDocument } from './inspection-fixtures.ts';
 import { phoneJpeg } from './media-samples.ts';
 import type { browserLikeAgent, TestContext } from './test-app.ts';
 
@@ -28,8 +28,7 @@ export async function publishReport(
   const orderId = await insertOrder(ctx);
   await db('orders').where({ id: orderId }).update({ payment_state: 'paid' });
   await db('order_parties').where({ order_id: orderId }).delete();
-  const now = new Date().toISOString();
-  await db('order_parties').insert(parties.map(([user_id, party_role]) => ({ order_id: orderId, user_id, party_role, created_at: now })));
+  await addParties(ctx, orderId, parties);
 
   const upload = await field.agent
     .post(`/api/orders/${orderId}/media/stills`)

@@ -33,6 +33,8 @@ export function knexConfig(settings: DbSettings): Knex.Config {
           conn.pragma('foreign_keys = ON');
           conn.pragma('busy_timeout = 5000');
           conn.pragma('synchronous = NORMAL');
+          // Statistics for the query planner, as SQLite advises for a long-lived connection (see keepPlannerStatistics).
+          conn.pragma('optimize = 0x10002');
           done(null, conn);
         } catch (err) {
           done(err as Error, conn);
@@ -76,6 +78,31 @@ export function createDb(settings: DbSettings): Knex {
 
 export async function migrateLatest(db: Knex): Promise<void> {
   await db.migrate.latest();
+}
+
+/** How often SQLite refreshes the planner's statistics of tables that changed much. */
+const PLANNER_STATISTICS_EVERY_MS = 60 * 60_000;
+
+/**
+ * SQLite picks between indexes by the statistics ANALYZE leaves; without them it guesses, and
+ * a guess that suits an empty database can walk a large table in the wrong order. SQLite's
+ * advice for long-lived connections (https://sqlite.org/lang_analyze.html, "PRAGMA optimize"):
+ * run PRAGMA optimize when the connection opens (afterCreate above), then periodically; it
+ * re-analyzes only the tables whose size changed a lot, from a sample. PostgreSQL's autovacuum
+ * keeps its own statistics. Returns a stop function.
+ */
+export async function keepPlannerStatistics(db: Knex, onError: (err: unknown) => void): Promise<() => void> {
+  if (!isSqlite(db)) return () => {};
+  // After the migrations too: on a new database the connection opened before the tables existed.
+  await refreshPlannerStatistics(db).catch(onError);
+  const timer = setInterval(() => void refreshPlannerStatistics(db).catch(onError), PLANNER_STATISTICS_EVERY_MS);
+  timer.unref();
+  return () => clearInterval(timer);
+}
+
+/** PRAGMA optimize: bounded by SQLite to a sample of each table, so quick even on a large file. */
+export async function refreshPlannerStatistics(db: Knex): Promise<void> {
+  if (isSqlite(db)) await db.raw('pragma optimize');
 }
 
 export function isSqlite(db: Knex): boolean {

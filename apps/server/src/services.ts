@@ -3,7 +3,7 @@ import { pino, type Logger } from 'pino';
 import type { ConnectSessionKnexStore } from 'connect-session-knex';
 import type Stripe from 'stripe';
 import type { Config } from './config.ts';
-import { createDb, migrateLatest } from './db.ts';
+import { createDb, keepPlannerStatistics, migrateLatest } from './db.ts';
 import { createSessionStore } from './http/session.ts';
 import { createMailTransport, OutboxWorker } from './modules/mail/outbox.worker.ts';
 import { createPaymentClient } from './modules/payments/payment-provider.ts';
@@ -46,6 +46,9 @@ export async function createServices(config: Config, options: ServiceOptions = {
     ...(options.databaseFile ? { filename: options.databaseFile } : {}),
   });
   await migrateLatest(db);
+  const stopPlannerStatistics = await keepPlannerStatistics(db, (err) =>
+    logger.warn({ err }, 'could not refresh the query planner statistics'),
+  );
 
   const usingFake = !config.mail.smtpUrl;
   const fake = options.fakeMail ?? { host: '127.0.0.1', smtpPort: config.mail.fakeSmtpPort, httpPort: config.mail.fakeSmtpHttpPort };
@@ -84,6 +87,7 @@ export async function createServices(config: Config, options: ServiceOptions = {
       await mediaSweep;
       await releaseIncoming(storage);
       await mail.stop();
+      stopPlannerStatistics();
       await db.destroy();
     },
   };

@@ -42,8 +42,16 @@ export type Payer = (typeof payers)[number];
 export const isoDateSchema = z.iso.date({ error: 'Use a date like 2027-03-14.' });
 
 /** Today's date in the given time zone's calendar (the company's; defaults to UTC). */
+/** One formatter per time zone: building an Intl.DateTimeFormat costs far more than using one. */
+const dayFormatters = new Map<string, Intl.DateTimeFormat>();
+
 export function todayIso(now: Date = new Date(), timeZone = 'UTC'): string {
-  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(now);
+  let format = dayFormatters.get(timeZone);
+  if (!format) {
+    format = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' });
+    dayFormatters.set(timeZone, format);
+  }
+  return format.format(now);
 }
 
 const CURRENT_YEAR = () => new Date().getUTCFullYear();

@@ -113,20 +113,23 @@ export interface OrderListFilter {
   offset: number;
 }
 
+type Ordering = { column: string; order: 'asc' | 'desc' }[];
+
 /**
- * One page of orders and the count of all that match. The page's ids come first from the orders
- * table's indexes alone (migrations/202612020010_indexes.ts), and only those rows are read and
- * joined: with 100 000 orders, joining every match before the limit cost seconds. The property is
- * joined early only to search or sort by address; every order has exactly one (property_id is NOT
- * NULL with a foreign key) and the inspector join is a left join on a primary key, so the count
- * needs neither.
+ * One page of orders and the count of all that match. The page's ids come first from indexes
+ * alone (migrations/202612020010_indexes.ts, 202612020020_party_order_keys.ts), and only those
+ * rows are read and joined: with 100 000 orders, joining every match before the limit cost
+ * seconds. The property is joined early only to search or sort by address; every order has
+ * exactly one (property_id is NOT NULL with a foreign key) and the inspector join is a left
+ * join on a primary key, so the count needs neither.
  */
 export async function listOrders(db: Knex, filter: OrderListFilter) {
+  const narrowed = Boolean(filter.statuses?.length || filter.windowDate || filter.search || filter.inspectorId);
   const matching = (withProperty: boolean) => {
     const q = db('orders').where('orders.company_id', filter.companyId);
     if (withProperty) q.join('properties', 'properties.id', 'orders.property_id');
     if (filter.partyUserId) {
-      q.whereIn('orders.id', db('order_parties').select('order_id').where('user_id', filter.partyUserId));
+      q.whereIn('orders.id', db('order_parties').select('order_id').where({ user_id: filter.partyUserId, company_id: filter.companyId }));
     }
     if (filter.inspectorId) q.where('orders.assigned_inspector_id', filter.inspectorId);
     if (filter.statuses?.length) q.whereIn('orders.status', filter.statuses);
@@ -142,7 +145,12 @@ export async function listOrders(db: Knex, filter: OrderListFilter) {
     }
     return q;
   };
-  const countRow = await matching(Boolean(filter.search)).count({ n: '*' }).first();
+  // Each party row carries its order's company, so with no other filter the person's party rows alone give the count.
+  const countRow =
+    filter.partyUserId && !narrowed
+      ? await db.from(personOrders(db, filter).select('order_id').as('mine')).count({ n: '*' }).first()
+      : await matching(Boolean(filter.search)).count({ n: '*' }).first();
+  const total = Number(countRow?.n ?? 0);
   const sortColumn = {
     deadline: 'orders.contingency_deadline',
     created: 'orders.created_at',
@@ -150,21 +158,29 @@ export async function listOrders(db: Knex, filter: OrderListFilter) {
     address: 'properties.street',
     window: 'orders.window_date',
   }[filter.sort];
-  const order = [
+  const order: Ordering = [
     { column: sortColumn, order: filter.direction },
-    { column: 'orders.window_start', order: 'asc' as const },
-    { column: 'orders.id', order: 'asc' as const },
+    { column: 'orders.window_start', order: 'asc' },
+    { column: 'orders.id', order: 'asc' },
   ];
-  // LIMIT inside IN (…) works on SQLite and PostgreSQL alike.
-  const pageIds = matching(Boolean(filter.search) || filter.sort === 'address')
-    .select('orders.id')
-    .orderBy(order)
-    .limit(filter.limit)
-    .offset(filter.offset);
+
+  // The portal's default list (nearest deadline first) comes from the person's party rows.
+  const ids =
+    filter.partyUserId && !narrowed && filter.sort === 'deadline' && filter.direction === 'asc'
+      ? await personPageByDeadline(db, filter, order)
+      : (
+          await matching(Boolean(filter.search) || filter.sort === 'address')
+            .select('orders.id')
+            .orderBy(order)
+            .limit(filter.limit)
+            .offset(filter.offset)
+        ).map((r: { id: string }) => r.id);
+  if (ids.length === 0) return { rows: [], total };
+
   const rows = await db('orders')
     .join('properties', 'properties.id', 'orders.property_id')
     .leftJoin('users as inspectors', 'inspectors.id', 'orders.assigned_inspector_id')
-    .whereIn('orders.id', pageIds)
+    .whereIn('orders.id', ids)
     .select(
       'orders.*',
       'properties.street',
@@ -178,7 +194,44 @@ export async function listOrders(db: Knex, filter: OrderListFilter) {
       'inspectors.name as inspector_name',
     )
     .orderBy(order);
-  return { rows, total: Number(countRow?.n ?? 0) };
+  return { rows, total };
+}
+
+/**
+ * A person's page, nearest deadline first, from their party rows (which carry each order's
+ * deadline): the deadline the page ends on is read off the index, and only the orders due by
+ * then are looked up and put in the list's full order (deadline, then visit, then id). Looking
+ * up every one of an agent's thousands of orders to sort them cost more than the rest of the request.
+ */
+async function personPageByDeadline(db: Knex, filter: OrderListFilter, order: Ordering): Promise<string[]> {
+  const pageEnd: { contingency_deadline: string } | undefined = await personOrders(db, filter)
+    .select('contingency_deadline')
+    .orderBy('contingency_deadline')
+    .limit(1)
+    .offset(filter.offset + filter.limit - 1)
+    .first();
+  const candidates = partyRowsOf(db, filter).select('order_id');
+  // No order that far down the list: the page is the last, and every order is a candidate.
+  if (pageEnd) candidates.where('contingency_deadline', '<=', pageEnd.contingency_deadline);
+  const rows: { id: string }[] = await db('orders')
+    .whereIn('orders.id', candidates)
+    .select('orders.id')
+    .orderBy(order)
+    .limit(filter.limit)
+    .offset(filter.offset);
+  return rows.map((r) => r.id);
+}
+
+function partyRowsOf(db: Knex, filter: OrderListFilter) {
+  return db('order_parties').where({ user_id: filter.partyUserId!, company_id: filter.companyId });
+}
+
+/**
+ * The orders a person is on, each once (on both sides of one order they have two party rows):
+ * grouped in the order of their index, so read straight off it with no sort.
+ */
+function personOrders(db: Knex, filter: OrderListFilter) {
+  return partyRowsOf(db, filter).groupBy('contingency_deadline', 'order_id');
 }
 
 export async function openOrdersForAddress(db: Knex, companyId: string, key: string): Promise<{ id: string; status: OrderStatus }[]> {

@@ -190,7 +190,15 @@ export function createOrdersService(deps: OrdersServiceDeps) {
           });
         }
       }
-      await trx('order_parties').insert(parties.map((p) => ({ ...p, order_id: orderId, created_at: now })));
+      await trx('order_parties').insert(
+        parties.map((p) => ({
+          ...p,
+          order_id: orderId,
+          company_id: actor.companyId,
+          contingency_deadline: input.contingencyDeadline,
+          created_at: now,
+        })),
+      );
 
       const payerText =
         input.payer === 'agent_now'
