@@ -105,6 +105,27 @@ export async function refreshPlannerStatistics(db: Knex): Promise<void> {
   if (isSqlite(db)) await db.raw('pragma optimize');
 }
 
+/** A unique or primary key clash, on SQLite or PostgreSQL. */
+export function isUniqueViolation(err: unknown): boolean {
+  const code = (err as { code?: string } | null)?.code ?? '';
+  return code.startsWith('SQLITE_CONSTRAINT_UNIQUE') || code.startsWith('SQLITE_CONSTRAINT_PRIMARYKEY') || code === '23505';
+}
+
+/**
+ * Check-then-insert work (an account for a new e-mail address) run again once when another
+ * request inserted the same key between the check and the insert: the second run sees the row
+ * and takes the path for an existing one. On PostgreSQL two requests can pass the check at the
+ * same moment; SQLite runs one write at a time, so there it never repeats.
+ */
+export async function againOnUniqueViolation<T>(work: () => Promise<T>): Promise<T> {
+  try {
+    return await work();
+  } catch (err) {
+    if (!isUniqueViolation(err)) throw err;
+    return work();
+  }
+}
+
 export function isSqlite(db: Knex): boolean {
   return db.client.config.client === 'better-sqlite3';
 }

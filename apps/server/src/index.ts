@@ -10,3 +10,4 @@ export { createS3Storage } from './storage/s3-storage.ts';
 export type { MediaStorage } from './storage/media-storage.ts';
 export { createReportsService, type ReportsService } from './modules/reports/reports.service.ts';
 export { findUserById } from './modules/auth/users.repo.ts';
+export { jsonWithParts } from './lib/json-parts.ts';

@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import type { InvitationCreateInput, Role } from '@underfoot/core';
 import { badRequest, conflict, gone, HttpError } from '../../http/errors.ts';
+import { againOnUniqueViolation } from '../../db.ts';
 import { recordAudit } from '../audit/audit.repo.ts';
 import { enqueueMail } from '../mail/outbox.repo.ts';
 import { dummyHashFor, hashPassword, verifyPassword } from './passwords.ts';
@@ -191,7 +192,15 @@ export function createAuthService(deps: AuthServiceDeps) {
     return { userId };
   }
 
-  return { checkCredentials, requestPasswordReset, completePasswordReset, describeInvitation, acceptInvitation, invite };
+  return {
+    checkCredentials,
+    requestPasswordReset,
+    completePasswordReset,
+    describeInvitation,
+    acceptInvitation,
+    // Two invitations to one new address at once: the second finds the first's pending account.
+    invite: (...args: Parameters<typeof invite>) => againOnUniqueViolation(() => invite(...args)),
+  };
 }
 
 export type AuthService = ReturnType<typeof createAuthService>;

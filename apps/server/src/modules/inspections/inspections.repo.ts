@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 import type { Inspection } from '@underfoot/core';
+import { isUniqueViolation } from '../../db.ts';
 
 export interface StoredInspection {
   orderId: string;
@@ -34,12 +35,6 @@ export async function findInspection(db: Knex, orderId: string): Promise<StoredI
     updatedAt: row.updated_at,
     updatedBy: row.updated_by ? { id: row.updated_by, name: row.updated_by_name ?? '' } : null,
   };
-}
-
-/** A primary-key clash on SQLite or PostgreSQL. */
-function isUniqueViolation(err: unknown): boolean {
-  const code = (err as { code?: string }).code ?? '';
-  return code.startsWith('SQLITE_CONSTRAINT') || code === '23505';
 }
 
 /** The first save of an order's inspection; false when someone else's first save got there before. */

@@ -16,6 +16,7 @@ import {
   type PartyRole,
   type Role,
 } from '@underfoot/core';
+import { againOnUniqueViolation } from '../../db.ts';
 import { badRequest, conflict, forbidden, HttpError, notFound } from '../../http/errors.ts';
 import { nowIso } from '../../lib/clock.ts';
 import { newId } from '../../lib/ids.ts';
@@ -544,7 +545,17 @@ export function createOrdersService(deps: OrdersServiceDeps) {
     return rows.map((r) => ({ id: r.id as string, name: r.name as string }));
   }
 
-  return { createOrder, getOrder, list, schedule, cancel, markRecorded, listInspectors, visibleOrder };
+  return {
+    // Two orders inviting one new client at once: the second finds the first's pending account.
+    createOrder: (...args: Parameters<typeof createOrder>) => againOnUniqueViolation(() => createOrder(...args)),
+    getOrder,
+    list,
+    schedule,
+    cancel,
+    markRecorded,
+    listInspectors,
+    visibleOrder,
+  };
 }
 
 export type OrdersService = ReturnType<typeof createOrdersService>;

@@ -3,6 +3,7 @@ import { gradeOverrideSchema } from '@underfoot/core';
 import { z } from 'zod';
 import { currentUser, requireSignIn } from '../../http/auth-guards.ts';
 import { notFound, parseInput } from '../../http/errors.ts';
+import { jsonWithParts } from '../../lib/json-parts.ts';
 import type { MediaStorage } from '../../storage/media-storage.ts';
 import type { ReportsService } from './reports.service.ts';
 import { sendStoredFile } from './serve-file.ts';
@@ -28,6 +29,12 @@ const messageSchema = z.object({
 });
 const revisionQuerySchema = z.object({ revision: z.coerce.number().int().min(1).optional() });
 const variantSchema = z.enum(['file', 'thumbnail']);
+
+/** A report as JSON: the frozen revision and its comparison are serialised once per process, not per reader. */
+function sendReport(res: Response, report: { revision: object; changes: object | null }) {
+  const { revision, changes, ...forReader } = report;
+  res.set('Cache-Control', 'no-store').type('json').send(jsonWithParts(forReader, { revision, changes }));
+}
 
 function sendPdf(res: Response, pdf: { bytes: Buffer; fileName: string }) {
   res.set({
@@ -63,7 +70,7 @@ export function reportsRouter(reports: ReportsService, storage: MediaStorage): R
   // Reading, for signed-in readers.
   router.get('/reports/:id', requireSignIn, async (req, res) => {
     const { revision } = parseInput(revisionQuerySchema, req.query);
-    res.set('Cache-Control', 'no-store').json(await reports.read(currentUser(req), id(req.params.id), { revision, ip: req.ip }));
+    sendReport(res, await reports.read(currentUser(req), id(req.params.id), { revision, ip: req.ip }));
   });
   router.get('/reports/:id/pdf', requireSignIn, async (req, res) => {
     const { revision } = parseInput(revisionQuerySchema, req.query);
@@ -103,7 +110,7 @@ export function reportsRouter(reports: ReportsService, storage: MediaStorage): R
 
   // Guests: no session needed; the token is the permission, and a link that does not work is one 404.
   router.get('/shared/:token', async (req, res) => {
-    res.set('Cache-Control', 'no-store').json(await reports.readShared(id(req.params.token), { ip: req.ip }));
+    sendReport(res, await reports.readShared(id(req.params.token), { ip: req.ip }));
   });
   router.get('/shared/:token/pdf', async (req, res) => {
     sendPdf(res, await reports.sharedPdf(id(req.params.token), { ip: req.ip }));

@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 import { badRequest, gone, HttpError } from '../../http/errors.ts';
+import { isUniqueViolation } from '../../db.ts';
 import { nowIso } from '../../lib/clock.ts';
 import { recordAudit } from '../audit/audit.repo.ts';
 import { hashPassword, verifyPassword } from '../auth/passwords.ts';
@@ -127,6 +128,8 @@ export function createAccountService(deps: AccountServiceDeps) {
   }
 
   /** Following the link sent to the new address. Works on any device; it signs nobody in. */
+  const emailTaken = () => new HttpError(409, 'email_taken', 'This address has meanwhile been used for another Underfoot account.');
+
   async function confirmEmailChange(token: string, ip: string | undefined) {
     const found = await lookupEmailChange(db, token);
     if (found.state === 'unknown')
@@ -139,10 +142,15 @@ export function createAccountService(deps: AccountServiceDeps) {
     await db.transaction(async (trx) => {
       if (!(await consumeEmailChange(trx, found.id))) throw gone('This link has already been used.', 'link_used');
       const taken = await findUserByEmail(trx, found.newEmail);
-      if (taken && taken.id !== user.id)
-        throw new HttpError(409, 'email_taken', 'This address has meanwhile been used for another Underfoot account.');
+      if (taken && taken.id !== user.id) throw emailTaken();
       const now = nowIso();
-      await trx('users').where({ id: user.id }).update({ email: found.newEmail, email_verified_at: now, updated_at: now });
+      // Another account can take the address between the check and this write (PostgreSQL serves requests side by side).
+      await trx('users')
+        .where({ id: user.id })
+        .update({ email: found.newEmail, email_verified_at: now, updated_at: now })
+        .catch((err: unknown) => {
+          throw isUniqueViolation(err) ? emailTaken() : err;
+        });
       // Reset links sent to the old address must not outlive it.
       await trx('one_time_tokens').where({ user_id: user.id, purpose: 'password_reset' }).whereNull('used_at').update({ used_at: now });
       await enqueueMail(trx, {

@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import type { AgentSignUpInput } from '@underfoot/core';
 import { gone, HttpError, notFound } from '../../http/errors.ts';
+import { againOnUniqueViolation } from '../../db.ts';
 import { recordAudit } from '../audit/audit.repo.ts';
 import { hashPassword } from '../auth/passwords.ts';
 import { consumeToken, issueToken, lookupToken, tokenLifetimeMs } from '../auth/tokens.repo.ts';
@@ -140,7 +141,13 @@ export function createSignUpService(deps: SignUpServiceDeps) {
     return user;
   }
 
-  return { describe, request, describeToken, complete };
+  return {
+    describe,
+    // Two sign-ups for one new address at once: the second finds the first's account.
+    request: (...args: Parameters<typeof request>) => againOnUniqueViolation(() => request(...args)),
+    describeToken,
+    complete,
+  };
 }
 
 export type SignUpService = ReturnType<typeof createSignUpService>;
