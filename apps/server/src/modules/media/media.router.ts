@@ -1,13 +1,12 @@
-import { Router, type RequestHandler, type Response } from 'express';
-import { pipeline } from 'node:stream/promises';
+import { Router, type RequestHandler } from 'express';
 import type { Knex } from 'knex';
 import { currentUser, requireSignIn } from '../../http/auth-guards.ts';
 import { parseInput } from '../../http/errors.ts';
 import type { MediaStorage } from '../../storage/media-storage.ts';
 import { editableOrder, readableOrder } from '../inspections/inspection-access.ts';
 import { listOrderMedia } from './media.repo.ts';
-import { parseRange } from './byte-range.ts';
 import { markupInputSchema, type MediaService } from './media.service.ts';
+import { fileCaching, sendStoredFile } from './send-stored-file.ts';
 import { singleFileUpload } from './upload.ts';
 
 /**
@@ -56,37 +55,7 @@ export function mediaRouter(db: Knex, storage: MediaStorage, media: MediaService
   const sendFile = (variant: 'file' | 'thumbnail'): RequestHandler => {
     return async (req, res) => {
       const file = await media.openForRead(currentUser(req), String(req.params.mediaId), variant);
-      res.set({
-        'Accept-Ranges': 'bytes',
-        'Content-Type': file.mime,
-        ETag: file.etag,
-        // Files never change under an id (new markup makes a new rendered copy), and only this person's browser keeps them.
-        'Cache-Control': 'private, max-age=86400',
-        'Content-Disposition': `inline; filename="${file.fileName}"`,
-      });
-      if (req.headers['if-none-match'] === file.etag) {
-        res.status(304).end();
-        return;
-      }
-      const ifRange = req.headers['if-range'];
-      const range = ifRange && ifRange !== file.etag ? null : parseRange(req.headers.range, file.size);
-      if (range === 'unsatisfiable') {
-        res.status(416).set('Content-Range', `bytes */${file.size}`).end();
-        return;
-      }
-      if (range) {
-        res.status(206).set({
-          'Content-Range': `bytes ${range.start}-${range.end}/${file.size}`,
-          'Content-Length': String(range.end - range.start + 1),
-        });
-      } else {
-        res.status(200).set('Content-Length', String(file.size));
-      }
-      if (req.method === 'HEAD') {
-        res.end();
-        return;
-      }
-      await streamOut(await storage.get(file.key, range ?? undefined), res);
+      await sendStoredFile(req, res, storage, file, fileCaching.signedIn);
     };
   };
 
@@ -104,14 +73,4 @@ export function mediaRouter(db: Knex, storage: MediaStorage, media: MediaService
   });
 
   return router;
-}
-
-/** Stream a file out; a player that stops reading (seeking elsewhere, tab closed) is ordinary, not an error. */
-async function streamOut(source: NodeJS.ReadableStream, res: Response) {
-  try {
-    await pipeline(source, res);
-  } catch (err) {
-    const code = (err as NodeJS.ErrnoException).code;
-    if (code !== 'ERR_STREAM_PREMATURE_CLOSE' && code !== 'EPIPE' && code !== 'ECONNRESET') throw err;
-  }
 }

@@ -5,8 +5,8 @@ import { currentUser, requireSignIn } from '../../http/auth-guards.ts';
 import { notFound, parseInput } from '../../http/errors.ts';
 import { jsonWithParts } from '../../lib/json-parts.ts';
 import type { MediaStorage } from '../../storage/media-storage.ts';
+import { fileCaching, sendStoredFile } from '../media/send-stored-file.ts';
 import type { ReportsService } from './reports.service.ts';
-import { sendStoredFile } from './serve-file.ts';
 
 const publishSchema = z.object({
   note: z.string().trim().max(2000, 'Use at most 2,000 characters.').default(''),
@@ -119,7 +119,7 @@ export function reportsRouter(reports: ReportsService, storage: MediaStorage): R
     const variant = variantSchema.safeParse(req.params.variant);
     if (!variant.success) throw notFound('file');
     const file = await reports.sharedMediaFile(id(req.params.token), id(req.params.mediaId), variant.data);
-    await sendStoredFile(req, res, storage, file);
+    await sendStoredFile(req, res, storage, file, fileCaching.guest);
   });
   return router;
 }

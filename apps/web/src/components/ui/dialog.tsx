@@ -1,24 +1,28 @@
-import { useEffect, useId, useRef, type ReactNode } from 'react';
+import { useEffect, useId, useRef, type MouseEventHandler, type ReactNode } from 'react';
+import { cn } from '@/lib/cn';
 import { Button } from './button';
 
 /**
  * The browser's own <dialog>, shown as a modal while `open`: it traps focus,
  * Escape cancels (the caller decides what that means) and focus returns to the
- * button that opened it. `width` is a Tailwind width class.
+ * button that opened it. Every dialog, sheet and lightbox of the app is one of these;
+ * `className` sizes and colours it.
  */
-function Modal({
+export function Modal({
   open,
   labelledBy,
-  width,
+  className,
   onCancel,
   onClose,
+  onClick,
   children,
 }: {
   open: boolean;
   labelledBy: string;
-  width: string;
+  className: string;
   onCancel: () => void;
   onClose?: () => void;
+  onClick?: MouseEventHandler<HTMLDialogElement>;
   children: ReactNode;
 }) {
   const ref = useRef<HTMLDialogElement>(null);
@@ -45,12 +49,16 @@ function Modal({
         e.preventDefault();
         onCancel();
       }}
-      className={`m-auto ${width} rounded-card border border-line bg-sheet p-0 text-ink shadow-sheet backdrop:bg-ink/40`}
+      onClick={onClick}
+      className={cn('m-auto rounded-card border p-0', className)}
     >
       {children}
     </dialog>
   );
 }
+
+/** The light card look of dialogs and sheets over a dimmed page. */
+export const sheetLook = 'border-line bg-sheet text-ink shadow-sheet backdrop:bg-ink/40';
 
 /** A modal with a title, an optional line under it, and whatever form or text it holds. */
 export function Dialog({
@@ -68,7 +76,13 @@ export function Dialog({
 }) {
   const titleId = useId();
   return (
-    <Modal open={open} labelledBy={titleId} width="w-[min(32rem,calc(100vw-2rem))]" onCancel={onClose} onClose={onClose}>
+    <Modal
+      open={open}
+      labelledBy={titleId}
+      className={cn(sheetLook, 'w-[min(32rem,calc(100vw-2rem))]')}
+      onCancel={onClose}
+      onClose={onClose}
+    >
       {open ? (
         <div className="p-5 sm:p-6">
           <h2 id={titleId} className="text-lg font-semibold">
@@ -104,7 +118,7 @@ export function ConfirmDialog({
 }) {
   const titleId = useId();
   return (
-    <Modal open={open} labelledBy={titleId} width="w-[min(30rem,calc(100vw-2rem))]" onCancel={onCancel}>
+    <Modal open={open} labelledBy={titleId} className={cn(sheetLook, 'w-[min(30rem,calc(100vw-2rem))]')} onCancel={onCancel}>
       {open ? (
         <div className="space-y-4 p-5 sm:p-6">
           <h2 id={titleId} className="text-lg font-semibold">

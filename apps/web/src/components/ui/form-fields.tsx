@@ -23,7 +23,7 @@ function FieldFrame({
   children,
 }: FieldFrameProps & { ids: ReturnType<typeof useFieldIds>; children: ReactNode }) {
   return (
-    <div className={cn('space-y-1.5', className)}>
+    <div className={cn('min-w-0 space-y-1.5', className)}>
       <label htmlFor={ids.id} className="block text-sm font-semibold text-ink">
         {label}
       </label>
@@ -77,7 +77,7 @@ export function TextAreaField({
         rows={3}
         aria-invalid={error ? true : undefined}
         aria-describedby={ids.describedBy}
-        className={inputClasses}
+        className={cn(inputClasses, 'resize-y')}
         {...props}
       />
     </FieldFrame>

@@ -22,7 +22,7 @@ export function TextField({ label, error, hint, id, trailing, className, ...inpu
   const { id: inputId, hintId, errorId, describedBy } = useFieldIds(hint, error, id);
 
   return (
-    <div className={cn('space-y-1.5', className)}>
+    <div className={cn('min-w-0 space-y-1.5', className)}>
       <label htmlFor={inputId} className="block text-sm font-semibold text-ink">
         {label}
       </label>

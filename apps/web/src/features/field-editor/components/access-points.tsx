@@ -1,7 +1,9 @@
 import { accessPointKinds, accessPointNames, type AccessPointKind, type Inspection } from '@underfoot/core';
 import { Button } from '@/components/ui/button';
 import { addAccessPoint, addRun, removeAccessPoint, updateAccessPoint } from '../model/document';
-import { InputField, SectionCard, SelectField } from './controls';
+import { SelectField } from '@/components/ui/form-fields';
+import { TextField } from '@/components/ui/text-field';
+import { SectionCard } from './controls';
 
 type Edit = (change: (doc: Inspection) => Inspection) => void;
 
@@ -70,7 +72,7 @@ export function AccessPoints({
                       </option>
                     ))}
                   </SelectField>
-                  <InputField
+                  <TextField
                     label="Where it is"
                     placeholder="e.g. Left of the garage door"
                     maxLength={200}

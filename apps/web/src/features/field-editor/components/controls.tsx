@@ -1,114 +1,8 @@
-import { useEffect, useId, useRef, useState, type ComponentProps, type ReactNode } from 'react';
+import { useEffect, useId, useState, type ReactNode } from 'react';
 import { Button } from '@/components/ui/button';
 import { Card, CardBody } from '@/components/ui/card';
-import { inputClasses } from '@/components/ui/text-field';
+import { Modal, sheetLook } from '@/components/ui/dialog';
 import { cn } from '@/lib/cn';
-
-/** The red line under a field, tied to it with aria-describedby. */
-export function FieldError({ id, message }: { id?: string | undefined; message?: string | undefined }) {
-  if (!message) return null;
-  return (
-    <p id={id} className="flex items-start gap-1.5 text-sm font-medium text-danger">
-      <svg aria-hidden="true" viewBox="0 0 20 20" className="mt-0.5 size-4 shrink-0" fill="currentColor">
-        <path d="M10 2a8 8 0 1 0 0 16 8 8 0 0 0 0-16Zm-.75 4h1.5v5.5h-1.5V6Zm.75 8.75a1 1 0 1 1 0-2 1 1 0 0 1 0 2Z" />
-      </svg>
-      <span>{message}</span>
-    </p>
-  );
-}
-
-export function useFieldIds(hint: ReactNode, error: string | undefined) {
-  const id = useId();
-  const hintId = hint ? `${id}-hint` : undefined;
-  const errorId = error ? `${id}-error` : undefined;
-  return { id, hintId, errorId, describedBy: [hintId, errorId].filter(Boolean).join(' ') || undefined };
-}
-
-interface FrameProps {
-  label: ReactNode;
-  hint?: ReactNode;
-  error?: string | undefined;
-  className?: string;
-}
-
-function Frame({
-  label,
-  hint,
-  error,
-  className,
-  ids,
-  children,
-}: FrameProps & { ids: ReturnType<typeof useFieldIds>; children: ReactNode }) {
-  return (
-    <div className={cn('min-w-0 space-y-1.5', className)}>
-      <label htmlFor={ids.id} className="block text-sm font-semibold text-ink">
-        {label}
-      </label>
-      {hint ? (
-        <p id={ids.hintId} className="text-sm text-ink-muted">
-          {hint}
-        </p>
-      ) : null}
-      {children}
-      <FieldError id={ids.errorId} message={error} />
-    </div>
-  );
-}
-
-export function SelectField({
-  label,
-  hint,
-  error,
-  className,
-  children,
-  ...props
-}: FrameProps & Omit<ComponentProps<'select'>, 'id' | 'className'>) {
-  const ids = useFieldIds(hint, error);
-  return (
-    <Frame label={label} hint={hint} error={error} className={className} ids={ids}>
-      <select
-        id={ids.id}
-        aria-invalid={error ? true : undefined}
-        aria-describedby={ids.describedBy}
-        className={cn(inputClasses, 'pr-8')}
-        {...props}
-      >
-        {children}
-      </select>
-    </Frame>
-  );
-}
-
-export function InputField({ label, hint, error, className, ...props }: FrameProps & Omit<ComponentProps<'input'>, 'id' | 'className'>) {
-  const ids = useFieldIds(hint, error);
-  return (
-    <Frame label={label} hint={hint} error={error} className={className} ids={ids}>
-      <input id={ids.id} aria-invalid={error ? true : undefined} aria-describedby={ids.describedBy} className={inputClasses} {...props} />
-    </Frame>
-  );
-}
-
-export function TextAreaField({
-  label,
-  hint,
-  error,
-  className,
-  ...props
-}: FrameProps & Omit<ComponentProps<'textarea'>, 'id' | 'className'>) {
-  const ids = useFieldIds(hint, error);
-  return (
-    <Frame label={label} hint={hint} error={error} className={className} ids={ids}>
-      <textarea
-        id={ids.id}
-        rows={2}
-        aria-invalid={error ? true : undefined}
-        aria-describedby={ids.describedBy}
-        className={cn(inputClasses, 'resize-y')}
-        {...props}
-      />
-    </Frame>
-  );
-}
 
 /** A card with a heading; the heading names the region for screen readers. */
 export function SectionCard({
@@ -212,30 +106,16 @@ export function Sheet({
   /** False for a question that must be answered: no close button, Escape does nothing. */
   dismissible?: boolean;
 }) {
-  const ref = useRef<HTMLDialogElement>(null);
   const titleId = useId();
-  useEffect(() => {
-    const dialog = ref.current;
-    if (!dialog) return;
-    if (open && !dialog.open) {
-      if (typeof dialog.showModal === 'function') dialog.showModal();
-      else dialog.setAttribute('open', '');
-    } else if (!open && dialog.open) {
-      if (typeof dialog.close === 'function') dialog.close();
-      else dialog.removeAttribute('open');
-    }
-  }, [open]);
   return (
-    <dialog
-      ref={ref}
-      aria-labelledby={titleId}
+    <Modal
+      open={open}
+      labelledBy={titleId}
       onClose={onClose}
-      onCancel={(e) => {
-        e.preventDefault();
-        onClose();
-      }}
+      onCancel={dismissible ? onClose : () => undefined}
       className={cn(
-        'm-auto max-h-[calc(100dvh-1rem)] overflow-y-auto rounded-card border border-line bg-sheet p-0 text-ink shadow-sheet backdrop:bg-ink/50',
+        sheetLook,
+        'max-h-[calc(100dvh-1rem)] overflow-y-auto',
         wide ? 'w-[min(56rem,calc(100vw-1rem))]' : 'w-[min(34rem,calc(100vw-1rem))]',
       )}
     >
@@ -264,7 +144,7 @@ export function Sheet({
           {children}
         </div>
       ) : null}
-    </dialog>
+    </Modal>
   );
 }
 

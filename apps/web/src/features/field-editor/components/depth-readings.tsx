@@ -1,7 +1,7 @@
 import { formatFeetInches, type Run } from '@underfoot/core';
 import { useState } from 'react';
 import { Button } from '@/components/ui/button';
-import { FieldError } from './controls';
+import { FieldError } from '@/components/ui/field-error';
 import { FootageField, type FootageInput } from './footage-field';
 
 /**

@@ -27,7 +27,10 @@ import { useId, useState, type FormEvent, type ReactNode } from 'react';
 import { Button } from '@/components/ui/button';
 import { cn } from '@/lib/cn';
 import { formatVideoTime, newId, parseVideoTime } from '../model/document';
-import { ConfirmButton, FieldError, InputField, SelectField, Sheet, TextAreaField } from './controls';
+import { FieldError } from '@/components/ui/field-error';
+import { SelectField, TextAreaField } from '@/components/ui/form-fields';
+import { TextField } from '@/components/ui/text-field';
+import { ConfirmButton, Sheet } from './controls';
 import { FootageField, type FootageInput } from './footage-field';
 import { ShapeMark } from '@/components/ui/grade-marks';
 
@@ -334,7 +337,7 @@ function FindingForm({ run, observation, videoTimeHint, readOnly, onSave, onDele
         {defect ? (
           <>
             {measure ? (
-              <InputField
+              <TextField
                 label={`Measured ${measure.label}`}
                 hint="Optional. The guide suggests a severity from it."
                 inputMode="decimal"
@@ -352,6 +355,7 @@ function FindingForm({ run, observation, videoTimeHint, readOnly, onSave, onDele
             />
             {needsReason ? (
               <TextAreaField
+                rows={2}
                 label={`Why ${draft.severity} rather than the guide’s ${suggested}?`}
                 value={draft.severityReason}
                 onChange={(e) => set({ severityReason: e.target.value })}
@@ -475,8 +479,8 @@ function FindingForm({ run, observation, videoTimeHint, readOnly, onSave, onDele
 
         {draft.kind ? <p className="text-sm text-ink-muted">{kindInfo[draft.kind].explanation}</p> : null}
 
-        <TextAreaField label="Note" value={draft.note} onChange={(e) => set({ note: e.target.value })} error={error('note')} />
-        <InputField
+        <TextAreaField rows={2} label="Note" value={draft.note} onChange={(e) => set({ note: e.target.value })} error={error('note')} />
+        <TextField
           label="Video time"
           hint="Where it shows in the run’s video, like 1:23."
           inputMode="decimal"

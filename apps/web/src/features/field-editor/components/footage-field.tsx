@@ -2,7 +2,7 @@ import { formatFeetInches, parseFootage } from '@underfoot/core';
 import { useState, type ReactNode } from 'react';
 import { inputClasses } from '@/components/ui/text-field';
 import { cn } from '@/lib/cn';
-import { FieldError, useFieldIds } from './controls';
+import { FieldError, useFieldIds } from '@/components/ui/field-error';
 
 export interface FootageInput {
   /** The stored distance, or null when empty or unreadable. */

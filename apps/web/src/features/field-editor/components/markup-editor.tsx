@@ -16,7 +16,7 @@ import { errorMessage, isApiError } from '@/lib/api-client';
 import { cn } from '@/lib/cn';
 import type { MediaView } from '../api';
 import { newId } from '../model/document';
-import { FieldError } from './controls';
+import { FieldError } from '@/components/ui/field-error';
 
 type Tool = 'select' | MarkupShapeType;
 type Point = { x: number; y: number };

@@ -2,7 +2,8 @@ import { formatFeetInches, materialNames, materials, type Material, type PipeSec
 import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { newId } from '../model/document';
-import { FieldError, SelectField } from './controls';
+import { FieldError } from '@/components/ui/field-error';
+import { SelectField } from '@/components/ui/form-fields';
 import { FootageField, type FootageInput } from './footage-field';
 
 /** Nominal sizes met in house laterals, in inches (a house lateral is most often 4 in: common practice, no source). */

@@ -32,7 +32,9 @@ import {
   upsertObservation,
   upsertSection,
 } from '../model/document';
-import { ConfirmButton, FieldError, SectionCard, SelectField, Segmented, Sheet, TextAreaField } from './controls';
+import { FieldError } from '@/components/ui/field-error';
+import { SelectField, TextAreaField } from '@/components/ui/form-fields';
+import { ConfirmButton, SectionCard, Segmented, Sheet } from './controls';
 import { DepthReadings } from './depth-readings';
 import { FindingSheet } from './finding-sheet';
 import { FootageField } from './footage-field';
@@ -241,6 +243,7 @@ export function RunCard({
         </div>
         {run.endReason !== 'reached_main' && run.endReason !== 'reached_building' ? (
           <TextAreaField
+            rows={2}
             label="What stopped the camera"
             value={run.endNote}
             disabled={readOnly}

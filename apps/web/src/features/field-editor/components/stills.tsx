@@ -5,7 +5,9 @@ import { errorMessage } from '@/lib/api-client';
 import { cn } from '@/lib/cn';
 import { uploadStill, type MediaView, type StillDetails } from '../api';
 import { formatVideoTime } from '../model/document';
-import { FieldError, SelectField, Sheet } from './controls';
+import { FieldError } from '@/components/ui/field-error';
+import { SelectField } from '@/components/ui/form-fields';
+import { Sheet } from './controls';
 import type { GrabbedFrame } from './video-panel';
 
 /** Thumbnails of a finding's stills, each opening the markup editor, and a way to add a photo. */

@@ -3,7 +3,8 @@ import { Button } from '@/components/ui/button';
 import { errorMessage } from '@/lib/api-client';
 import { UploadCancelled, uploadVideo, type MediaView, type UploadHandle, type UploadProgress } from '../api';
 import { formatVideoTime } from '../model/document';
-import { ConfirmButton, FieldError } from './controls';
+import { FieldError } from '@/components/ui/field-error';
+import { ConfirmButton } from './controls';
 
 const sizeText = (bytes: number) =>
   bytes >= 1024 ** 3

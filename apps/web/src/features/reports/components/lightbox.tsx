@@ -1,39 +1,24 @@
-import { useEffect, useId, useRef, type ReactNode } from 'react';
+import { useId, type ReactNode } from 'react';
+import { Modal } from '@/components/ui/dialog';
 
 /**
  * A full-screen dialog on the browser's own <dialog> for a still or the video: it traps
  * focus, closes on Escape or the close button, and hands focus back to what opened it.
  */
 export function Lightbox({ open, onClose, title, children }: { open: boolean; onClose: () => void; title: string; children: ReactNode }) {
-  const ref = useRef<HTMLDialogElement>(null);
   const titleId = useId();
 
-  useEffect(() => {
-    const dialog = ref.current;
-    if (!dialog) return;
-    if (open && !dialog.open) {
-      if (typeof dialog.showModal === 'function') dialog.showModal();
-      else dialog.setAttribute('open', '');
-    } else if (!open && dialog.open) {
-      if (typeof dialog.close === 'function') dialog.close();
-      else dialog.removeAttribute('open');
-    }
-  }, [open]);
-
   return (
-    <dialog
-      ref={ref}
-      aria-labelledby={titleId}
+    <Modal
+      open={open}
+      labelledBy={titleId}
       onClose={onClose}
-      onCancel={(e) => {
-        e.preventDefault();
-        onClose();
-      }}
+      onCancel={onClose}
       onClick={(e) => {
         // A tap on the dim backdrop (the dialog element itself, outside its content) closes it.
         if (e.target === e.currentTarget) onClose();
       }}
-      className="m-auto max-h-[calc(100dvh-1rem)] w-[min(64rem,calc(100vw-1rem))] overflow-hidden rounded-card border border-line bg-ink p-0 text-white backdrop:bg-ink/80"
+      className="max-h-[calc(100dvh-1rem)] w-[min(64rem,calc(100vw-1rem))] overflow-hidden border-line bg-ink text-white backdrop:bg-ink/80"
     >
       {open ? (
         <div className="flex max-h-[calc(100dvh-1rem)] flex-col">
@@ -56,6 +41,6 @@ export function Lightbox({ open, onClose, title, children }: { open: boolean; on
           <div className="min-h-0 flex-1 overflow-auto">{children}</div>
         </div>
       ) : null}
-    </dialog>
+    </Modal>
   );
 }

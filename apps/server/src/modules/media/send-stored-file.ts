@@ -1,7 +1,7 @@
 import type { Request, Response } from 'express';
 import { pipeline } from 'node:stream/promises';
 import type { MediaStorage } from '../../storage/media-storage.ts';
-import { parseRange } from '../media/byte-range.ts';
+import { parseRange } from './byte-range.ts';
 
 export interface StoredFile {
   key: string;
@@ -12,16 +12,28 @@ export interface StoredFile {
 }
 
 /**
- * Send a stored file with byte ranges (206), so a player can seek to a finding. Guests'
- * copies are revalidated on every use (`no-cache` with an ETag): a revoked link stops
- * working at once, and an unchanged file still costs only a 304.
+ * How long a browser may keep a file. Signed-in readers keep theirs a day: files never change
+ * under an id (new markup makes a new rendered copy). Guests revalidate on every use: a revoked
+ * link stops working at once, and an unchanged file still costs only a 304.
  */
-export async function sendStoredFile(req: Request, res: Response, storage: MediaStorage, file: StoredFile): Promise<void> {
+export const fileCaching = {
+  signedIn: 'private, max-age=86400',
+  guest: 'private, no-cache',
+} as const;
+
+/** Send a stored file with ETag revalidation and byte ranges (206), so a player can seek to a finding. */
+export async function sendStoredFile(
+  req: Request,
+  res: Response,
+  storage: MediaStorage,
+  file: StoredFile,
+  caching: (typeof fileCaching)[keyof typeof fileCaching],
+): Promise<void> {
   res.set({
     'Accept-Ranges': 'bytes',
     'Content-Type': file.mime,
     ETag: file.etag,
-    'Cache-Control': 'private, no-cache',
+    'Cache-Control': caching,
     'Content-Disposition': `inline; filename="${file.fileName}"`,
   });
   if (req.headers['if-none-match'] === file.etag) {
