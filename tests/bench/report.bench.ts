@@ -338,11 +338,16 @@ export async function benchApi(ctx: TestContext, orderId: string, cookie: string
       (sum(runs, 'non2xx') + sum(runs, 'errors') + sum(runs, 'timeouts') > 0
         ? ` (${sum(runs, 'non2xx')} non-2xx, ${sum(runs, 'errors')} errors, ${sum(runs, 'timeouts')} timeouts)`
         : '');
-    // For diagnosis: the cheapest signed-in route (session, CSRF and the user lookup, no report work).
+    // For diagnosis, the layers under the report: the app's request logging, security headers and
+    // compression alone (the health check), then the cheapest signed-in route (the session and the user lookup too).
+    const healthRuns = [await runLoad(`${ctx.baseUrl}/api/health`, '', 5)];
     const meRuns = [await runLoad(`${ctx.baseUrl}/api/auth/me`, cookie, 5)];
     console.log(`GET /api/reports/:id, 50 connections, 2 × 5 s each (${(text.length / 1024).toFixed(0)} KB of JSON):`);
     console.log(`  bare Express, same JSON        ${describe(bareRuns)}`);
     console.log(`  report API, signed in          ${describe(apiRuns)}`);
+    console.log(
+      `  GET /api/health, for scale     ${describe(healthRuns)} = ${((rate(healthRuns) / rate(bareRuns)) * 100).toFixed(0)} % of bare`,
+    );
     console.log(`  GET /api/auth/me, for scale    ${describe(meRuns)} = ${((rate(meRuns) / rate(bareRuns)) * 100).toFixed(0)} % of bare`);
     const share = sum(apiRuns, 'non2xx') + sum(apiRuns, 'errors') > 0 ? 0 : rate(apiRuns) / rate(bareRuns);
     console.log(`  report API throughput          ${(share * 100).toFixed(0)} % of bare  (target ≥ 60 %: ${mark(share >= 0.6)})`);

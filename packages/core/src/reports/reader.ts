@@ -173,3 +173,12 @@ export const explainKind = (kind: ObservationKind): string => kindInfo[kind].exp
 export function sourceForReaders(source: string): string | null {
   return /CHECKS\.md|common practice|from memory/i.test(source) ? null : source;
 }
+
+/**
+ * The revision a report address asks for (`?revision=2`), or null for the latest: the web app's
+ * routes and the server's first view read the address the same way.
+ */
+export function revisionFromQuery(value: string | null | undefined): number | null {
+  const revision = Number(value);
+  return Number.isInteger(revision) && revision > 0 ? revision : null;
+}

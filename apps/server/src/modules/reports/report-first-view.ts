@@ -4,7 +4,7 @@ import path from 'node:path';
 import Beasties from 'beasties';
 import type { RequestHandler } from 'express';
 import { LRUCache } from 'lru-cache';
-import { homeAreaOf, type CurrentUser } from '@underfoot/core';
+import { homeAreaOf, revisionFromQuery, type CurrentUser } from '@underfoot/core';
 import type { Logger } from 'pino';
 import { HttpError } from '../../http/errors.ts';
 import { publicUser, type UserRecord } from '../auth/users.repo.ts';
@@ -132,10 +132,11 @@ export function reportFirstView(deps: { reports: ReportsService; webDistDir: str
 
   const page: RequestHandler = async (req, res, next) => {
     const user = req.user as UserRecord | undefined;
+    // Only the portal's readers get a first view; everyone else gets the app shell at once.
+    if (!user || homeAreaOf[user.role] !== 'portal' || !entry || !indexHtml.includes(ROOT_ELEMENT)) return next();
     const render = await loadRenderer();
-    if (!user || !render || !entry || homeAreaOf[user.role] !== 'portal' || !indexHtml.includes(ROOT_ELEMENT)) return next();
-    const revisionParam = Number(req.query.revision);
-    const revision = Number.isInteger(revisionParam) && revisionParam > 0 ? revisionParam : null;
+    if (!render) return next();
+    const revision = revisionFromQuery(typeof req.query.revision === 'string' ? req.query.revision : null);
     let report: unknown;
     try {
       report = await deps.reports.read(user, String(req.params.orderId), { revision: revision ?? undefined, ip: req.ip });

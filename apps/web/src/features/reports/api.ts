@@ -14,6 +14,7 @@ import type {
   RevisionComparison,
   Side,
 } from '@underfoot/core';
+import { revisionFromQuery } from '@underfoot/core';
 import { api } from '@/lib/api-client';
 
 /** Shapes the API answers with (apps/server/src/modules/reports/reports.service.ts). */
@@ -169,8 +170,7 @@ const readOnce = { staleTime: Infinity, refetchOnWindowFocus: false, meta: { err
 
 /** ?revision=N on a report page: a published revision number, or null for the latest. */
 export function revisionParam(search: URLSearchParams): number | null {
-  const revision = Number(search.get('revision'));
-  return Number.isInteger(revision) && revision > 0 ? revision : null;
+  return revisionFromQuery(search.get('revision'));
 }
 
 export function reportQueryOptions(orderId: string, revision: number | null) {
