@@ -205,8 +205,16 @@ describe('company logo', () => {
     expect(
       (await send(me, 'put', '/api/account/password', { currentPassword: TEST_PASSWORD, newPassword: 'another fine passphrase' })).status,
     ).toBe(200);
-    const mail = await waitForMail(ctx.mail, person.email, 'password has changed');
-    expect(mail.html).toContain(`<img src="http://underfoot.test${url}"`);
+    const logo = `<img src="http://underfoot.test${url}"`;
+    expect((await waitForMail(ctx.mail, person.email, 'password has changed')).html).toContain(logo);
+    // Every kind of message carries it: a reset link asked for without a session, an invitation from the office.
+    expect((await (await browserLikeAgent(ctx.app)).post('/api/auth/password-reset', { email: person.email })).status).toBe(202);
+    expect((await waitForMail(ctx.mail, person.email, 'Reset')).html).toContain(logo);
+    expect(
+      (await clients.office.post('/api/users/invitations', { email: 'logo-invitee@mudlark.test', name: 'Lee Invitee', role: 'inspector' }))
+        .status,
+    ).toBe(201);
+    expect((await waitForMail(ctx.mail, 'logo-invitee@mudlark.test', 'invited you')).html).toContain(logo);
   });
 
   it('refuses a file that is not a picture by its content, and leaves nothing behind', async () => {

@@ -3,6 +3,7 @@ import type { InvitationCreateInput, Role } from '@underfoot/core';
 import { badRequest, conflict, gone, HttpError } from '../../http/errors.ts';
 import { againOnUniqueViolation } from '../../db.ts';
 import { recordAudit } from '../audit/audit.repo.ts';
+import { mailBrandOf } from '../company/brand.ts';
 import { enqueueMail } from '../mail/outbox.repo.ts';
 import { dummyHashFor, hashPassword, verifyPassword } from './passwords.ts';
 import { endSessionsOf } from './sessions.repo.ts';
@@ -42,15 +43,18 @@ export function createAuthService(deps: AuthServiceDeps) {
     return { outcome: 'ok', user };
   }
 
+  const mailBrand = async (companyId: string) => mailBrandOf(await db('companies').where({ id: companyId }).first(), publicUrl);
+
   /** Always succeeds from the caller's point of view, so the answer never says whether an account exists. */
   async function requestPasswordReset(email: string, ip: string | undefined): Promise<void> {
     const user = await findUserByEmail(db, email);
     if (!user || user.disabledAt) return;
+    const brand = await mailBrand(user.companyId);
     await db.transaction(async (trx) => {
       const token = await issueToken(trx, user.id, 'password_reset');
       await enqueueMail(trx, {
         companyId: user.companyId,
-        companyName: user.companyName,
+        ...brand,
         to: user.email,
         template: 'password_reset',
         vars: {
@@ -152,6 +156,7 @@ export function createAuthService(deps: AuthServiceDeps) {
         { path: 'role', message: `The pending invitation is for ${roleLabels[existing.role]}.` },
       ]);
     }
+    const brand = await mailBrand(inviter.companyId);
     const userId = await db.transaction(async (trx) => {
       const id =
         existing?.id ??
@@ -166,7 +171,7 @@ export function createAuthService(deps: AuthServiceDeps) {
       const token = await issueToken(trx, id, 'invitation');
       await enqueueMail(trx, {
         companyId: inviter.companyId,
-        companyName: inviter.companyName,
+        ...brand,
         to: input.email,
         template: 'invitation',
         vars: {

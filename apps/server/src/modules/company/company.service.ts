@@ -14,6 +14,7 @@ import type { MediaStorage } from '../../storage/media-storage.ts';
 import { recordAudit } from '../audit/audit.repo.ts';
 import type { UserRecord } from '../auth/users.repo.ts';
 import { auditFilterOptions, listAuditEntries, type AuditFilter } from './audit-trail.repo.ts';
+import { logoPath, mailBrandOf } from './brand.ts';
 import {
   deleteLogoRow,
   findCompany,
@@ -40,7 +41,6 @@ export interface CompanyServiceDeps {
 export const CSV_EXPORT_LIMIT = 50_000;
 
 /** The logo's public address: unguessable by its id, because it appears in e-mails and the public portal. */
-export const logoPath = (logoId: string) => `/api/company-logos/${logoId}.png`;
 
 export function createCompanyService(deps: CompanyServiceDeps) {
   const { db, storage, publicUrl } = deps;
@@ -78,8 +78,9 @@ export function createCompanyService(deps: CompanyServiceDeps) {
 
   /** For e-mails: the logo as an absolute address, since mail is read away from the app. */
   async function mailBrand(companyId: string) {
-    const b = await brand(companyId);
-    return { companyName: b.name, logoUrl: b.logoUrl ? `${publicUrl}${b.logoUrl}` : null };
+    const company = await findCompany(db, companyId);
+    if (!company) throw notFound('company');
+    return mailBrandOf({ name: company.profile.name, logo_id: company.logoId }, publicUrl);
   }
 
   function changedKeys<T extends object>(before: T, after: T): string[] {

@@ -21,9 +21,9 @@ export async function enqueueMail<T extends MailTemplateName>(
   db: Knex,
   message: {
     companyId: string | null;
+    /** The company as its mail shows it, from mailBrandOf (company/brand.ts): every message carries both. */
     companyName: string;
-    /** The company's logo (absolute URL), shown at the top when given. */
-    logoUrl?: string | null;
+    logoUrl: string | null;
     to: string;
     template: T;
     vars: MailVars<T>;
@@ -33,7 +33,7 @@ export async function enqueueMail<T extends MailTemplateName>(
     ctx: { companyName: string; logoUrl?: string | null },
     vars: MailVars<T>,
   ) => ReturnType<(typeof mailTemplates)[T]>;
-  const rendered = render({ companyName: message.companyName, logoUrl: message.logoUrl ?? null }, message.vars);
+  const rendered = render({ companyName: message.companyName, logoUrl: message.logoUrl }, message.vars);
   const now = nowIso();
   await db('mail_outbox').insert({
     company_id: message.companyId,

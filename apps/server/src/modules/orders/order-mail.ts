@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 import { formatAddress } from '@underfoot/core';
+import type { MailBrand } from '../company/brand.ts';
 import { enqueueMail } from '../mail/outbox.repo.ts';
 import type { MailTemplateName, MailVars } from '../mail/templates.ts';
 import { listParties, type OrderRow } from './orders.repo.ts';
@@ -27,7 +28,7 @@ export async function propertyAddressOf(db: Knex, order: OrderRow): Promise<stri
 export async function mailOrderParties<T extends MailTemplateName>(
   db: Knex,
   order: OrderRow,
-  companyName: string,
+  brand: MailBrand,
   template: T,
   varsFor: (person: { name: string; email: string }) => MailVars<T>,
   options: { includeInspector?: boolean } = {},
@@ -41,6 +42,6 @@ export async function mailOrderParties<T extends MailTemplateName>(
   for (const person of people) {
     if (seen.has(person.email)) continue;
     seen.add(person.email);
-    await enqueueMail(db, { companyId: order.company_id, companyName, to: person.email, template, vars: varsFor(person) });
+    await enqueueMail(db, { companyId: order.company_id, ...brand, to: person.email, template, vars: varsFor(person) });
   }
 }

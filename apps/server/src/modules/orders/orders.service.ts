@@ -23,6 +23,7 @@ import { newId } from '../../lib/ids.ts';
 import { recordAudit } from '../audit/audit.repo.ts';
 import { issueToken, tokenLifetimeMs } from '../auth/tokens.repo.ts';
 import { findUserByEmail, insertUser, type UserRecord } from '../auth/users.repo.ts';
+import { mailBrandOf } from '../company/brand.ts';
 import { listActiveFeeItems } from '../fees/fees.repo.ts';
 import { enqueueMail } from '../mail/outbox.repo.ts';
 import { longDate, mailOrderParties, propertyAddressOf, windowText } from './order-mail.ts';
@@ -176,7 +177,7 @@ export function createOrdersService(deps: OrdersServiceDeps) {
           const token = await issueToken(trx, userId, 'invitation');
           await enqueueMail(trx, {
             companyId: actor.companyId,
-            companyName: company.name,
+            ...mailBrandOf(company, publicUrl),
             to: person.email,
             template: 'order_invitation',
             vars: {
@@ -208,7 +209,7 @@ export function createOrdersService(deps: OrdersServiceDeps) {
       for (const person of confirmations) {
         await enqueueMail(trx, {
           companyId: actor.companyId,
-          companyName: company.name,
+          ...mailBrandOf(company, publicUrl),
           to: person.email,
           template: 'order_confirmation',
           vars: {
@@ -432,7 +433,7 @@ export function createOrdersService(deps: OrdersServiceDeps) {
       await mailOrderParties(
         trx,
         fresh,
-        company.name,
+        mailBrandOf(company, publicUrl),
         'schedule_change',
         (person) => ({
           name: person.name,
@@ -484,7 +485,7 @@ export function createOrdersService(deps: OrdersServiceDeps) {
       await mailOrderParties(
         trx,
         order,
-        company.name,
+        mailBrandOf(company, publicUrl),
         'order_cancelled',
         (person) => ({
           name: person.name,

@@ -6,6 +6,7 @@ import { nowIso } from '../../lib/clock.ts';
 import { newId } from '../../lib/ids.ts';
 import { recordAudit } from '../audit/audit.repo.ts';
 import type { UserRecord } from '../auth/users.repo.ts';
+import { mailBrandOf } from '../company/brand.ts';
 import { enqueueMail } from '../mail/outbox.repo.ts';
 import { addOrderEvent, findOrderRow, loadOrderAccess, type OrderRow } from '../orders/orders.repo.ts';
 
@@ -213,7 +214,7 @@ export function createPaymentsService(deps: PaymentsServiceDeps) {
     if (!payer) return false;
     await enqueueMail(trx, {
       companyId: order.company_id,
-      companyName: company.name,
+      ...mailBrandOf(company, deps.publicUrl),
       to: payer.email,
       template: 'payment_receipt',
       vars: {
@@ -251,7 +252,7 @@ export function createPaymentsService(deps: PaymentsServiceDeps) {
     const property = await trx('properties').where({ id: order.property_id }).first();
     await enqueueMail(trx, {
       companyId: order.company_id,
-      companyName: company.name,
+      ...mailBrandOf(company, deps.publicUrl),
       to: payer.email,
       template: 'payment_refunded',
       vars: {

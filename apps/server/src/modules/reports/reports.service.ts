@@ -21,6 +21,7 @@ import { hashToken, newId, newSecretToken } from '../../lib/ids.ts';
 import type { MediaStorage } from '../../storage/media-storage.ts';
 import { recordAudit } from '../audit/audit.repo.ts';
 import type { UserRecord } from '../auth/users.repo.ts';
+import { mailBrandOf, type MailBrand } from '../company/brand.ts';
 import { loadPriceBook } from '../company/price-book.repo.ts';
 import { referencedMediaIds } from '../inspections/inspection-rules.ts';
 import { findInspection, updateIfVersion } from '../inspections/inspections.repo.ts';
@@ -91,7 +92,7 @@ export function createReportsService(deps: ReportsServiceDeps) {
   const companyOf = async (order: OrderRow) => db('companies').where({ id: order.company_id }).first();
 
   /** Mail the parties on the given sides that a report (or its new revision) is there to read. */
-  async function mailReleased(trx: Knex, order: OrderRow, companyName: string, toSides: readonly Side[], revisionNumber: number) {
+  async function mailReleased(trx: Knex, order: OrderRow, brand: MailBrand, toSides: readonly Side[], revisionNumber: number) {
     const parties = await listParties(trx, order.id);
     const address = await addressOf(trx, order);
     const seen = new Set<string>();
@@ -100,7 +101,7 @@ export function createReportsService(deps: ReportsServiceDeps) {
       seen.add(p.email);
       await enqueueMail(trx, {
         companyId: order.company_id,
-        companyName,
+        ...brand,
         to: p.email,
         template: 'report_released',
         vars: { name: p.name, url: `${publicUrl}/portal/reports/${order.id}`, address, revised: revisionNumber > 1 },
@@ -254,7 +255,7 @@ export function createReportsService(deps: ReportsServiceDeps) {
         },
         ip,
       });
-      if (release.length > 0) await mailReleased(trx, order, company.name, release, number);
+      if (release.length > 0) await mailReleased(trx, order, mailBrandOf(company, publicUrl), release, number);
     });
     deps.mailQueued();
     return { revision: number, grade: analysis.grade.level, releaseHeld: requirePayment };
@@ -294,7 +295,7 @@ export function createReportsService(deps: ReportsServiceDeps) {
     const company = await trx('companies').where({ id: order.company_id }).first();
     const latest = await latestRevision(trx, orderId);
     await addOrderEvent(trx, { orderId, actorUserId: null, type: 'released', detail: { sides: released } });
-    await mailReleased(trx, order, company.name, [order.ordering_side], latest?.number ?? 1);
+    await mailReleased(trx, order, mailBrandOf(company, publicUrl), [order.ordering_side], latest?.number ?? 1);
     return true;
   }
 
@@ -516,7 +517,8 @@ export function createReportsService(deps: ReportsServiceDeps) {
         subjectId: orderId,
         ip,
       });
-      if (disclose) await mailReleased(trx, order, company.name, [other], (await latestRevision(trx, orderId))?.number ?? 1);
+      if (disclose)
+        await mailReleased(trx, order, mailBrandOf(company, publicUrl), [other], (await latestRevision(trx, orderId))?.number ?? 1);
     });
     deps.mailQueued();
     return { releasedTo: next };
@@ -815,7 +817,7 @@ export function createReportsService(deps: ReportsServiceDeps) {
       for (const person of staff) {
         await enqueueMail(trx, {
           companyId: order.company_id,
-          companyName: company.name,
+          ...mailBrandOf(company, publicUrl),
           to: person.email,
           template: 'report_question',
           vars: {
@@ -864,7 +866,7 @@ export function createReportsService(deps: ReportsServiceDeps) {
       for (const [email, name] of recipients) {
         await enqueueMail(trx, {
           companyId: order.company_id,
-          companyName: company.name,
+          ...mailBrandOf(company, publicUrl),
           to: email,
           template: 'report_answer',
           vars: {
