@@ -1,7 +1,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { getDocument } from 'pdfjs-dist/legacy/build/pdf.mjs';
-import { formatCents } from '@underfoot/core';
+import { accessPointOffsets, collectFindings, findingFromBuilding, formatCents, formatFootage, type Inspection } from '@underfoot/core';
 import { publishReport, type ReportFixture } from '../support/report-fixtures.ts';
 import { browserLikeAgent, createTestContext, type TestContext } from '../support/test-app.ts';
 
@@ -79,6 +79,12 @@ describe('the PDF text', () => {
     for (const option of options) {
       expect(all).toContain(option.name);
       expect(all).toContain(`${formatCents(option.lowCents)} – ${formatCents(option.highCents)}`);
+    }
+    // Each finding also reads on the diagram's scale, from the house.
+    const inspection = json.body.revision.snapshot.inspection as Inspection;
+    const offsets = accessPointOffsets(inspection);
+    for (const finding of collectFindings(inspection)) {
+      expect(all).toContain(`${formatFootage(findingFromBuilding(inspection, finding, offsets))} from the house`);
     }
     pages.forEach((text, i) => expect(text).toContain(`Page ${i + 1} of ${pages.length}`));
   });

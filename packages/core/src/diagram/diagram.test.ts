@@ -3,7 +3,8 @@ import { buildInspection } from '../testing/builders.ts';
 import { scenarios } from '../testing/scenarios.ts';
 import { gradeLevels } from '../model/schemas.ts';
 import { materials } from '../model/kinds.ts';
-import { accessPointOffsets, DIAGRAM_WIDTH, layoutDiagram } from './layout.ts';
+import { accessPointOffsets, DIAGRAM_WIDTH, findingFromBuilding, layoutDiagram } from './layout.ts';
+import { collectFindings } from '../model/findings.ts';
 import { contrastRatio, gradeStyles, materialStyles, palette, severityStyle } from './palette.ts';
 import { escapeXml, renderDiagramSvg } from './render-svg.ts';
 import { feet } from '../footage/footage.ts';
@@ -74,6 +75,14 @@ describe('layout', () => {
     expect(accessPointOffsets(twoWay).get('ap-1')).toBe(feet(9));
     expect(model.building.x).toBeLessThan(model.lanes[0]!.accessPoint.x);
     expect(model.main.x).toBeGreaterThan(model.lanes[0]!.accessPoint.x);
+  });
+
+  it('gives each finding its distance from the house, the diagram scale, beside its footage from the cleanout', () => {
+    // The cleanout sits 9 ft out: 12 ft toward the main is 21 ft from the house, 4 ft back toward it is 5 ft.
+    const fromHouse = new Map(collectFindings(twoWay).map((f) => [f.observation.id, findingFromBuilding(twoWay, f)]));
+    expect(fromHouse.get('o-crack')).toBe(feet(21));
+    expect(fromHouse.get('o-sag')).toBe(feet(59));
+    expect(fromHouse.get('o-scale')).toBe(feet(5));
   });
 
   it('pins every finding (not the features) at its footage, with ids to link to the finding', () => {

@@ -1,5 +1,5 @@
 import { UNITS_PER_FOOT, UNITS_PER_METRE, formatFootage, type Footage, type UnitSystem } from '../footage/footage.ts';
-import { accessPointLabel, runLabel } from '../model/findings.ts';
+import { accessPointLabel, runLabel, type Finding } from '../model/findings.ts';
 import {
   accessPointNames,
   bendInfo,
@@ -164,6 +164,19 @@ export function accessPointOffsets(inspection: Inspection): Map<string, Footage>
 
 /** Along-the-line position (from the building wall) of a footage on a run. */
 const positionOf = (run: Run, offset: Footage, at: Footage): Footage => (run.direction === 'toward_main' ? offset + at : offset - at);
+
+/**
+ * How far from the house a finding starts, on the diagram's scale: findings are measured from
+ * the access point the camera went in at, the diagram from the building wall, and a reader
+ * holding one against the other needs both. Pass `offsets` when asking for many findings.
+ */
+export function findingFromBuilding(
+  inspection: Inspection,
+  finding: Pick<Finding, 'run' | 'start'>,
+  offsets: Map<string, Footage> = accessPointOffsets(inspection),
+): Footage {
+  return Math.max(0, positionOf(finding.run, offsets.get(finding.run.accessPointId) ?? 0, finding.start));
+}
 
 function niceStep(span: number, units: UnitSystem): number {
   const perUnit = units === 'metric' ? UNITS_PER_METRE : UNITS_PER_FOOT;

@@ -4,7 +4,9 @@ import { fileURLToPath } from 'node:url';
 import PDFDocument from 'pdfkit';
 import sharp from 'sharp';
 import {
+  accessPointOffsets,
   collectFindings,
+  findingFromBuilding,
   formatCents,
   formatFootage,
   glossaryFor,
@@ -287,6 +289,7 @@ export async function renderReportPdf(input: PdfInput, loadImage: (mediaId: stri
   findings.sort((a, b) => (numberOf.get(a.observation.id) ?? 999) - (numberOf.get(b.observation.id) ?? 999));
   heading(`What the camera found (${findings.length})`);
   if (findings.length === 0) body('The camera found no defects in the pipe.');
+  const offsets = accessPointOffsets(inspection);
   for (const f of findings) {
     const o = f.observation;
     const sev = severityStyle(o.severity);
@@ -305,9 +308,13 @@ export async function renderReportPdf(input: PdfInput, loadImage: (mediaId: stri
       .font('regular')
       .fontSize(9.5)
       .fillColor(palette.inkMuted)
-      .text(`Severity ${o.severity} of 5 (${scale?.name ?? ''}) · ${where} ${runLabel(f.run, f.accessPoint)}`, MARGIN + 22, doc.y, {
-        width: CONTENT_WIDTH - 22,
-      });
+      .text(
+        `Severity ${o.severity} of 5 (${scale?.name ?? ''}) · ${where} ${runLabel(f.run, f.accessPoint)} · ` +
+          `${formatFootage(findingFromBuilding(inspection, f, offsets))} from the house`,
+        MARGIN + 22,
+        doc.y,
+        { width: CONTENT_WIDTH - 22 },
+      );
     doc
       .font('regular')
       .fontSize(10)

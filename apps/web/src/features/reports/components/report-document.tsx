@@ -1,6 +1,8 @@
 import {
+  accessPointOffsets,
   collectFindings,
   formatCents,
+  findingFromBuilding,
   formatFootage,
   glossaryFor,
   gradeGuidance,
@@ -15,6 +17,7 @@ import {
   urgencyNames,
   type CostOption,
   type Finding,
+  type Footage,
   type RevisionComparison,
   type Side,
 } from '@underfoot/core';
@@ -209,6 +212,7 @@ export function ReportDocument({ revision, changes, readerSide, media, headerAct
   const mediaById = useMemo(() => new Map(snap.media.map((m) => [m.id, m])), [snap.media]);
   const recommendationFor = useMemo(() => new Map(analysis.recommendations.findings.map((r) => [r.observationIds[0], r])), [analysis]);
   const seenFeet = inspection.runs.reduce((sum, r) => sum + r.distanceReached, 0);
+  const offsets = useMemo(() => accessPointOffsets(inspection), [inspection]);
   const footerCautions = analysis.cautions.filter((c) => c.places.includes('report_footer') || c.places.includes('cost_section'));
 
   // A pin is a link to its finding: scroll there and put the focus on it, without a jump in history.
@@ -274,6 +278,7 @@ export function ReportDocument({ revision, changes, readerSide, media, headerAct
                 key={finding.observation.id}
                 finding={finding}
                 number={number}
+                fromHouse={findingFromBuilding(inspection, finding, offsets)}
                 stills={finding.observation.stillIds.map((id) => mediaById.get(id)).filter((m): m is SnapshotMedia => !!m)}
                 recommendation={recommendationFor.get(finding.observation.id) ?? null}
                 videoId={finding.run.videoFileId && mediaById.has(finding.run.videoFileId) ? finding.run.videoFileId : null}
@@ -498,6 +503,7 @@ function FullStill({ media, still, alt }: { media: MediaSource; still: SnapshotM
 function FindingCard({
   finding,
   number,
+  fromHouse,
   stills,
   recommendation,
   videoId,
@@ -507,6 +513,8 @@ function FindingCard({
 }: {
   finding: Finding;
   number: number | null;
+  /** Where it starts on the diagram's scale (from the house), beside its footage from the access point. */
+  fromHouse: Footage;
   stills: SnapshotMedia[];
   recommendation: { name: string; text: string; urgency: keyof typeof urgencyNames } | null;
   videoId: string | null;
@@ -532,7 +540,7 @@ function FindingCard({
         <SeverityLabel severity={o.severity} />
       </div>
       <p className="numeric mt-0.5 text-sm text-ink-muted">
-        {where} {runLabel(finding.run, finding.accessPoint)}
+        {where} {runLabel(finding.run, finding.accessPoint)} · {formatFootage(fromHouse)} from the house
       </p>
       <p className="mt-2">{info.explanation}</p>
       {o.note ? (
