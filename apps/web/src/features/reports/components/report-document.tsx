@@ -237,8 +237,8 @@ export function ReportDocument({ revision, changes, readerSide, media, headerAct
 
       <Part id="diagram" title="Your line, from the house to the main">
         <p className="mb-3 text-sm text-ink-muted">
-          The camera saw <span className="numeric">{formatFootage(seenFeet)}</span> of pipe. Each numbered mark is a finding below, at its
-          distance from where the camera went in; tap one to read it.
+          The camera saw <span className="numeric">{formatFootage(seenFeet)}</span> of pipe. The scale counts from the house; each numbered
+          mark is a finding below, which gives both its distance from the house and from where the camera went in. Tap one to read it.
         </p>
         <div
           className="overflow-hidden rounded-lg border border-line [&_a:focus-visible]:outline-3 [&_a:focus-visible]:outline-accent [&_svg]:mx-auto [&_svg]:block [&_svg]:h-auto"
