@@ -129,7 +129,7 @@ export async function listOrders(db: Knex, filter: OrderListFilter) {
     const q = db('orders').where('orders.company_id', filter.companyId);
     if (withProperty) q.join('properties', 'properties.id', 'orders.property_id');
     if (filter.partyUserId) {
-      q.whereIn('orders.id', db('order_parties').select('order_id').where({ user_id: filter.partyUserId, company_id: filter.companyId }));
+      q.whereIn('orders.id', partyRowsOf(db, filter).select('order_id'));
     }
     if (filter.inspectorId) q.where('orders.assigned_inspector_id', filter.inspectorId);
     if (filter.statuses?.length) q.whereIn('orders.status', filter.statuses);
@@ -207,7 +207,6 @@ async function personPageByDeadline(db: Knex, filter: OrderListFilter, order: Or
   const pageEnd: { contingency_deadline: string } | undefined = await personOrders(db, filter)
     .select('contingency_deadline')
     .orderBy('contingency_deadline')
-    .limit(1)
     .offset(filter.offset + filter.limit - 1)
     .first();
   const candidates = partyRowsOf(db, filter).select('order_id');
