@@ -30,10 +30,16 @@ const messageSchema = z.object({
 const revisionQuerySchema = z.object({ revision: z.coerce.number().int().min(1).optional() });
 const variantSchema = z.enum(['file', 'thumbnail']);
 
-/** A report as JSON: the frozen revision and its comparison are serialised once per process, not per reader. */
+/**
+ * A report as JSON: the frozen revision and its comparison are encoded once per process, not per
+ * reader. Sent as bytes with no ETag: the answer is never stored (no-store), so hashing it to
+ * label it for a cache was wasted work on the busiest read.
+ */
 function sendReport(res: Response, report: { revision: object; changes: object | null }) {
   const { revision, changes, ...forReader } = report;
-  res.set('Cache-Control', 'no-store').type('json').send(jsonWithParts(forReader, { revision, changes }));
+  const body = jsonWithParts(forReader, { revision, changes });
+  res.set({ 'Cache-Control': 'no-store', 'Content-Type': 'application/json; charset=utf-8', 'Content-Length': String(body.length) });
+  res.end(body);
 }
 
 function sendPdf(res: Response, pdf: { bytes: Buffer; fileName: string }) {
