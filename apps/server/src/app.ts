@@ -110,19 +110,6 @@ export function createApp(config: Config, services: Services): Express {
   app.use('/api', express.json({ limit: '100kb' }));
   const sessions = sessionMiddleware(config, services.sessionStore);
   app.use('/api', sessions);
-  const auth = createAuthService({
-    db,
-    publicUrl: config.publicUrl,
-    passwordHashCost: config.passwordHashCost,
-    mailQueued,
-  });
-  const passport = createPassport(db, auth);
-  app.use('/api', passport.initialize());
-  app.use('/api', passport.session());
-  // Every state-changing /api request carries the session's CSRF token.
-  app.use('/api', csrf.csrfSynchronisedProtection);
-
-  app.use('/api/auth', authRouter(config, db, auth, passport));
   // The office runs the company (profile, fee list, price book, audit trail); everyone keeps their own account.
   const company = createCompanyService({ db, storage: services.storage, publicUrl: config.publicUrl, log: logger });
   const accountDeps = {
@@ -132,6 +119,14 @@ export function createApp(config: Config, services: Services): Express {
     mailQueued,
     mailBrand: company.mailBrand,
   };
+  const auth = createAuthService(accountDeps);
+  const passport = createPassport(db, auth);
+  app.use('/api', passport.initialize());
+  app.use('/api', passport.session());
+  // Every state-changing /api request carries the session's CSRF token.
+  app.use('/api', csrf.csrfSynchronisedProtection);
+
+  app.use('/api/auth', authRouter(config, db, auth, passport));
   app.use('/api/company-logos', companyLogoRouter(company));
   app.use('/api/users', usersRouter(auth, createPeopleService({ db, auth })));
   app.use('/api/account', accountRouter(config, db, createAccountService(accountDeps)));

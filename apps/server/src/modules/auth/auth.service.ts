@@ -3,7 +3,7 @@ import type { InvitationCreateInput, Role } from '@underfoot/core';
 import { badRequest, conflict, gone, HttpError } from '../../http/errors.ts';
 import { againOnUniqueViolation } from '../../db.ts';
 import { recordAudit } from '../audit/audit.repo.ts';
-import { mailBrandOf } from '../company/brand.ts';
+import type { MailBrand } from '../company/brand.ts';
 import { enqueueMail } from '../mail/outbox.repo.ts';
 import { dummyHashFor, hashPassword, verifyPassword } from './passwords.ts';
 import { endSessionsOf } from './sessions.repo.ts';
@@ -23,6 +23,8 @@ export interface AuthServiceDeps {
   passwordHashCost: number;
   /** Called after a transaction that wrote mail commits. */
   mailQueued: () => void;
+  /** The company as its mail shows it (company.service.ts mailBrand). */
+  mailBrand: (companyId: string) => Promise<MailBrand>;
 }
 
 export type SignInResult = { outcome: 'ok'; user: UserRecord } | { outcome: 'invalid' } | { outcome: 'disabled' };
@@ -43,13 +45,11 @@ export function createAuthService(deps: AuthServiceDeps) {
     return { outcome: 'ok', user };
   }
 
-  const mailBrand = async (companyId: string) => mailBrandOf(await db('companies').where({ id: companyId }).first(), publicUrl);
-
   /** Always succeeds from the caller's point of view, so the answer never says whether an account exists. */
   async function requestPasswordReset(email: string, ip: string | undefined): Promise<void> {
     const user = await findUserByEmail(db, email);
     if (!user || user.disabledAt) return;
-    const brand = await mailBrand(user.companyId);
+    const brand = await deps.mailBrand(user.companyId);
     await db.transaction(async (trx) => {
       const token = await issueToken(trx, user.id, 'password_reset');
       await enqueueMail(trx, {
@@ -156,7 +156,7 @@ export function createAuthService(deps: AuthServiceDeps) {
         { path: 'role', message: `The pending invitation is for ${roleLabels[existing.role]}.` },
       ]);
     }
-    const brand = await mailBrand(inviter.companyId);
+    const brand = await deps.mailBrand(inviter.companyId);
     const userId = await db.transaction(async (trx) => {
       const id =
         existing?.id ??

@@ -1,4 +1,4 @@
-/** Where a company's logo is served (company.router.ts companyLogoRouter). */
+/** Where a company's logo is served (company.router.ts companyLogoRouter): unguessable by its id, because it appears in e-mails and the public portal. */
 export const logoPath = (logoId: string) => `/api/company-logos/${logoId}.png`;
 
 export interface MailBrand {

@@ -40,8 +40,6 @@ export interface CompanyServiceDeps {
 /** The most rows one CSV export carries; narrow the filters for more. */
 export const CSV_EXPORT_LIMIT = 50_000;
 
-/** The logo's public address: unguessable by its id, because it appears in e-mails and the public portal. */
-
 export function createCompanyService(deps: CompanyServiceDeps) {
   const { db, storage, publicUrl } = deps;
 
