@@ -1,14 +1,13 @@
 import { existsSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { randomUUID } from 'node:crypto';
 import compression from 'compression';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
-import { pinoHttp } from 'pino-http';
 import type { Config } from './config.ts';
 import { csrf } from './http/csrf.ts';
 import { apiNotFound, errorMiddleware } from './http/errors.ts';
+import { requestLog } from './http/request-log.ts';
 import { sessionMiddleware } from './http/session.ts';
 import { authRouter, createPassport } from './modules/auth/auth.router.ts';
 import { createAuthService } from './modules/auth/auth.service.ts';
@@ -48,18 +47,7 @@ export function createApp(config: Config, services: Services): Express {
   app.disable('x-powered-by');
   if (config.trustProxy) app.set('trust proxy', 1);
 
-  app.use(
-    pinoHttp({
-      logger,
-      genReqId: (req, res) => {
-        const incoming = req.headers['x-request-id'];
-        const id = typeof incoming === 'string' && /^[\w-]{1,100}$/.test(incoming) ? incoming : randomUUID();
-        res.setHeader('X-Request-Id', id);
-        return id;
-      },
-      autoLogging: { ignore: (req) => req.url === '/api/health' },
-    }),
-  );
+  app.use(requestLog(logger));
   app.use(
     helmet({
       contentSecurityPolicy: {

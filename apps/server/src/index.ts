@@ -11,3 +11,4 @@ export type { MediaStorage } from './storage/media-storage.ts';
 export { createReportsService, type ReportsService } from './modules/reports/reports.service.ts';
 export { findUserById } from './modules/auth/users.repo.ts';
 export { jsonWithParts } from './lib/json-parts.ts';
+export { requestLog, urlForLog } from './http/request-log.ts';
