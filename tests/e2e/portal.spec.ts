@@ -347,15 +347,34 @@ describe('review, publish and read', () => {
     await screenshot(page, 'report-agent-desktop');
     expect(errors).toEqual([]);
 
+    /** The raw HTML of the link's page, as a browser's first request gets it. */
+    const firstHtml = async () => {
+      const res = await fetch(url);
+      expect(res.status).toBe(200);
+      return { html: await res.text(), cacheControl: res.headers.get('cache-control') };
+    };
+    // The guest's phone gets the grade in the page's first HTML too; the page is never kept by a shared cache.
+    const first = await firstHtml();
+    expect(first.cacheControl).toBe('no-store');
+    expect(first.html).toContain('data-first-view');
+    expect(first.html).toMatch(/<h2 id="grade-title"[^>]*>Repair now<\/h2>/);
+    expect(first.html).toContain('Shared with you to read');
+
     const guest = await newPage(browser, 'phone');
+    const guestErrors = collectPageErrors(guest.page);
     try {
       await guest.page.goto(url);
       await guest.page.getByRole('heading', { level: 2, name: 'Repair now' }).waitFor();
       await guest.page.getByText(/Shared with you to read/).waitFor();
+      // The app has taken over from the first view: one grade, and the rest of the report below it.
+      await guest.page.getByRole('heading', { name: 'In short' }).waitFor();
+      expect(await guest.page.getByRole('heading', { level: 2, name: 'Repair now' }).count()).toBe(1);
       const img = guest.page.locator('#report-finding-obs-offset img').first();
       await img.scrollIntoViewIfNeeded();
       await expect.poll(() => img.evaluate((i: HTMLImageElement) => i.naturalWidth)).toBeGreaterThan(0);
       await screenshot(guest.page, 'report-guest-phone');
+      // (Checked before the link is revoked: then the app's read is a 404, which the console reports.)
+      expect(guestErrors).toEqual([]);
 
       await page
         .getByRole('region', { name: 'Share links' })
@@ -365,6 +384,11 @@ describe('review, publish and read', () => {
         .getByRole('region', { name: 'Share links' })
         .getByText(/Revoked/)
         .waitFor();
+      // A revoked link's page carries nothing of the report, not even in its first HTML.
+      const revoked = await firstHtml();
+      expect(revoked.html).not.toContain('data-first-view');
+      expect(revoked.html).not.toContain('Repair now');
+      expect(revoked.html).not.toContain(street);
       await guest.page.reload();
       await guest.page.getByRole('heading', { name: 'This link does not open a report' }).waitFor();
     } finally {

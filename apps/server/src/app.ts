@@ -133,6 +133,7 @@ export function createApp(config: Config, services: Services): Express {
     app.use(express.static(webDistDir, { index: false, maxAge: '1h', setHeaders: immutableAssets }));
     const firstView = reportFirstView({ reports, webDistDir, serverEntry: reportFirstViewEntry, log: logger });
     app.get('/portal/reports/:orderId', sessions, passport.initialize(), passport.session(), firstView.page);
+    app.get('/shared/:token', firstView.sharedPage);
     app.get(FIRST_VIEW_BOOT_PATH, firstView.boot);
     // Client-side routes: every other GET gets the app shell.
     app.get('/{*splat}', (_req, res) => {

@@ -2,7 +2,7 @@ import { existsSync, readFileSync } from 'node:fs';
 import { pathToFileURL } from 'node:url';
 import path from 'node:path';
 import Beasties from 'beasties';
-import type { RequestHandler } from 'express';
+import type { NextFunction, Request, RequestHandler, Response } from 'express';
 import { LRUCache } from 'lru-cache';
 import { homeAreaOf, revisionFromQuery, type CurrentUser } from '@underfoot/core';
 import type { Logger } from 'pino';
@@ -13,6 +13,7 @@ import type { ReportsService } from './reports.service.ts';
 /** The web app's server entry (apps/web/src/app/report-first-view.server.tsx, built by `npm run build`). */
 interface FirstViewRenderer {
   renderReportFirstView(input: { url: string; user: CurrentUser; report: unknown; revision: number | null }): Promise<string>;
+  renderSharedReportFirstView(input: { url: string; token: string; report: unknown }): Promise<string>;
 }
 
 const ROOT_ELEMENT = '<div id="root"></div>';
@@ -70,14 +71,17 @@ function selectorSignature(html: string): string {
 }
 
 /**
- * GET /portal/reports/:orderId for a signed-in reader: the app's page with the top of the
- * report (header, grade, what it means) already in the HTML. A reader on a slow phone sees the
- * grade after a few kilobytes instead of after the whole app; the app then renders over it.
- * Anyone else (signed out, another area, a report they may not see) gets the plain app page,
- * which shows them what it shows everyone: sign-in, or "not found".
+ * The report pages with the top of the report (header, grade, what it means) already in the
+ * HTML: a reader on a slow phone sees the grade after a few kilobytes instead of after the
+ * whole app; the app then renders over it.
+ *  - GET /portal/reports/:orderId for a signed-in reader of the portal;
+ *  - GET /shared/:token for a guest with a working share or disclosure link.
+ * Anyone else (signed out, another area, a report they may not see, a link that does not work)
+ * gets the plain app page, which shows them what it shows everyone: sign-in, or "not found".
  */
 export function reportFirstView(deps: { reports: ReportsService; webDistDir: string; serverEntry: string; log: Logger }): {
   page: RequestHandler;
+  sharedPage: RequestHandler;
   boot: RequestHandler;
 } {
   const indexHtml = readFileSync(path.join(deps.webDistDir, 'index.html'), 'utf8');
@@ -130,29 +134,33 @@ export function reportFirstView(deps: { reports: ReportsService; webDistDir: str
       ? (import(pathToFileURL(deps.serverEntry).href) as Promise<FirstViewRenderer>)
       : Promise.resolve(null));
 
-  const page: RequestHandler = async (req, res, next) => {
-    const user = req.user as UserRecord | undefined;
-    // Only the portal's readers get a first view; everyone else gets the app shell at once.
-    if (!user || homeAreaOf[user.role] !== 'portal' || !entry || !indexHtml.includes(ROOT_ELEMENT)) return next();
-    const render = await loadRenderer();
-    if (!render) return next();
-    const revision = revisionFromQuery(typeof req.query.revision === 'string' ? req.query.revision : null);
+  const firstViewUrl = (req: Request) => new URL(req.originalUrl, 'http://underfoot.local').href;
+
+  /**
+   * Reads the report the page is about (or gives way to the app page when that is refused) and
+   * sends the page with its first view. The read is the reader's first view in the view log; the
+   * app's own read moments later falls in the same repeat window, so it is one view.
+   */
+  async function sendFirstView(
+    res: Response,
+    next: NextFunction,
+    read: () => Promise<unknown>,
+    render: (renderer: FirstViewRenderer, report: unknown) => Promise<string>,
+  ) {
+    if (!entry || !indexHtml.includes(ROOT_ELEMENT)) return next();
+    const renderer = await loadRenderer();
+    if (!renderer) return next();
     let report: unknown;
     try {
-      report = await deps.reports.read(user, String(req.params.orderId), { revision: revision ?? undefined, ip: req.ip });
+      report = await read();
     } catch (error) {
-      // Not found, not theirs: the app page says so in its own words.
+      // Not found, not theirs, a link that does not work: the app page says so in its own words.
       if (error instanceof HttpError && error.status < 500) return next();
       throw error;
     }
     let html: string;
     try {
-      const rootHtml = await render.renderReportFirstView({
-        url: new URL(req.originalUrl, 'http://underfoot.local').href,
-        user: publicUser(user),
-        report,
-        revision,
-      });
+      const rootHtml = await render(renderer, report);
       html = pageAround(await criticalCssFor(rootHtml), rootHtml);
     } catch (error) {
       // The page still works without its head start.
@@ -160,6 +168,29 @@ export function reportFirstView(deps: { reports: ReportsService; webDistDir: str
       return next();
     }
     res.set('Cache-Control', 'no-store').type('html').send(html);
+  }
+
+  const page: RequestHandler = async (req, res, next) => {
+    const user = req.user as UserRecord | undefined;
+    // Only the portal's readers get a first view; everyone else gets the app shell at once.
+    if (!user || homeAreaOf[user.role] !== 'portal') return next();
+    const revision = revisionFromQuery(typeof req.query.revision === 'string' ? req.query.revision : null);
+    await sendFirstView(
+      res,
+      next,
+      () => deps.reports.read(user, String(req.params.orderId), { revision: revision ?? undefined, ip: req.ip }),
+      (renderer, report) => renderer.renderReportFirstView({ url: firstViewUrl(req), user: publicUser(user), report, revision }),
+    );
   };
-  return { page, boot };
+
+  const sharedPage: RequestHandler = async (req, res, next) => {
+    const token = String(req.params.token);
+    await sendFirstView(
+      res,
+      next,
+      () => deps.reports.readShared(token, { ip: req.ip }),
+      (renderer, report) => renderer.renderSharedReportFirstView({ url: firstViewUrl(req), token, report }),
+    );
+  };
+  return { page, sharedPage, boot };
 }

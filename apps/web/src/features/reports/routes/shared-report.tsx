@@ -8,9 +8,38 @@ import { SectionLoading } from '@/components/ui/spinner';
 import { errorMessage, isApiError } from '@/lib/api-client';
 import { formatDateTime } from '@/lib/format';
 import { useDocumentTitle } from '@/lib/use-document-title';
-import { sharedMedia, sharedPdfHref, sharedReportQueryOptions } from '../api';
-import { ReportDocument } from '../components/report-document';
+import { sharedMedia, sharedPdfHref, sharedReportQueryOptions, type SharedRead } from '../api';
+import { ReportDocument, ReportFirstView } from '../components/report-document';
 import { PdfButton } from '../components/pdf-button';
+
+/** Whose link this is and how long it works, above the report. */
+function SharedNotice({ report }: { report: SharedRead }) {
+  return (
+    <p className="rounded-lg border border-line bg-sand/60 px-3.5 py-2.5 text-sm text-ink-muted">
+      {report.purpose === 'disclosure'
+        ? 'The seller shares this report with prospective buyers. It is read-only.'
+        : `Shared with you to read. ${report.expiresAt ? `This link works until ${formatDateTime(report.expiresAt)}.` : ''}`}
+    </p>
+  );
+}
+
+/**
+ * The top of a shared report as the server renders it into the first HTML (a guest on a phone
+ * sees the grade after a few kilobytes): the same layout, header and grade as the full page.
+ */
+export function SharedReportFirstViewPage({ report, token }: { report: SharedRead; token: string }) {
+  return (
+    <SimpleLayout>
+      <ReportFirstView
+        revision={report.revision}
+        changes={report.changes}
+        readerSide={null}
+        headerActions={<PdfButton href={sharedPdfHref(token)} />}
+        notice={<SharedNotice report={report} />}
+      />
+    </SimpleLayout>
+  );
+}
 
 /** A report opened through a share link: read-only, no account, outside the signed-in area. */
 export function SharedReportRoute() {
@@ -42,13 +71,7 @@ export function SharedReportRoute() {
         readerSide={null}
         media={sharedMedia(token)}
         headerActions={<PdfButton href={sharedPdfHref(token)} />}
-        notice={
-          <p className="rounded-lg border border-line bg-sand/60 px-3.5 py-2.5 text-sm text-ink-muted">
-            {data.purpose === 'disclosure'
-              ? 'The seller shares this report with prospective buyers. It is read-only.'
-              : `Shared with you to read. ${data.expiresAt ? `This link works until ${formatDateTime(data.expiresAt)}.` : ''}`}
-          </p>
-        }
+        notice={<SharedNotice report={data} />}
       />
     );
   }
