@@ -130,8 +130,58 @@ describe('order lists', () => {
     expect((await list(client, 'limit=25')).orders.find((o) => o.id === both)?.grade).toBeNull();
   });
 
+  it('by default puts open orders first, nearest deadline first, then closed ones, latest deadline first', async () => {
+    // An agent with years of orders must find this week's on page one, not the oldest deadline there is.
+    const { db } = ctx.services;
+    const agent = await ctx.addUser('agent', 'lists.attention@example.com');
+    const orders: { deadline: string; status: 'requested' | 'scheduled' | 'recorded' | 'in_review' | 'published' | 'cancelled' }[] = [
+      { deadline: '2024-03-01', status: 'published' },
+      { deadline: '2099-05-01', status: 'requested' },
+      { deadline: '2025-07-15', status: 'cancelled' },
+      { deadline: '2026-01-10', status: 'in_review' },
+      { deadline: '2099-02-01', status: 'scheduled' },
+      { deadline: '2025-11-30', status: 'published' },
+      { deadline: '2099-03-03', status: 'recorded' },
+      { deadline: '2023-09-09', status: 'published' },
+    ];
+    const ids: string[] = [];
+    for (const o of orders) {
+      const id = await insertOrder(ctx, { partyUserId: agent.id, status: o.status });
+      await db('orders').where({ id }).update({ contingency_deadline: o.deadline });
+      await db('order_parties').where({ order_id: id }).update({ contingency_deadline: o.deadline });
+      ids.push(id);
+    }
+    const closed = (s: string) => s === 'published' || s === 'cancelled';
+    const expected = orders
+      .map((o, i) => ({ ...o, id: ids[i]! }))
+      .sort((a, b) =>
+        closed(a.status) !== closed(b.status)
+          ? Number(closed(a.status)) - Number(closed(b.status))
+          : closed(a.status)
+            ? b.deadline.localeCompare(a.deadline)
+            : a.deadline.localeCompare(b.deadline),
+      )
+      .map((o) => o.id);
+    // An overdue order still in review counts as open: it comes first, its deadline being the nearest.
+    expect(expected[0]).toBe(ids[3]);
+
+    const client = await signedIn(agent.email);
+    const seen: string[] = [];
+    for (let offset = 0; offset < orders.length; offset += 3) {
+      const page = await list(client, `limit=3&offset=${offset}`);
+      expect(page.total).toBe(orders.length);
+      seen.push(...page.orders.map((o) => o.id));
+    }
+    expect(seen).toEqual(expected);
+    // Asked for by name, the same; the office's whole list in that order holds them in the same order too.
+    expect((await list(client, 'sort=attention&limit=25')).orders.map((o) => o.id)).toEqual(expected);
+    const office = await signedIn(ctx.users.office.email);
+    const all = (await list(office, 'sort=attention&limit=200')).orders.map((o) => o.id);
+    expect(all.filter((id) => ids.includes(id))).toEqual(expected);
+  });
+
   it("an agent's list by deadline, read from their party rows, is the list the orders give", async () => {
-    // The portal's default list comes from the person's party rows, which carry each order's
+    // A person's list by deadline comes from their party rows, which carry each order's
     // deadline (orders.repo.ts personPageByDeadline); naming every status takes the general path
     // through the orders: the reference. Deadlines are often shared, so the visit time and id decide.
     const { db } = ctx.services;

@@ -235,15 +235,17 @@ export async function benchScale(): Promise<void> {
         cookie: office,
         judged: true,
       },
-      { name: 'agent dashboard', paths: ['/api/orders?sort=deadline&direction=asc&limit=25'], cookie: agent, judged: true },
+      { name: 'agent dashboard', paths: ['/api/orders?sort=attention&direction=asc&limit=25'], cookie: agent, judged: true },
       { name: 'report read', paths: [`/api/reports/${readable}`], cookie: agent, judged: true },
       // For scale: the dashboard of the agent in the middle of the spread.
       {
         name: `agent dashboard, median agent (${data.medianAgent.orders} orders)`,
-        paths: ['/api/orders?sort=deadline&direction=asc&limit=25'],
+        paths: ['/api/orders?sort=attention&direction=asc&limit=25'],
         cookie: medianAgent,
         judged: false,
       },
+      // For scale: the busiest agent's list sorted by the deadline column (read from their party rows).
+      { name: 'agent dashboard by deadline', paths: ['/api/orders?sort=deadline&direction=asc&limit=25'], cookie: agent, judged: false },
       // For scale: every read a different report (nothing kept in the process yet), and the office's register of all orders.
       {
         name: 'report read, new report each time',

@@ -107,13 +107,45 @@ export interface OrderListFilter {
   /** Only visits on this date (YYYY-MM-DD). */
   windowDate?: string | undefined;
   search?: string | undefined;
-  sort: 'deadline' | 'created' | 'status' | 'address' | 'window';
+  /** `attention`: open orders first, nearest deadline first; then closed ones, latest deadline first (direction ignored). */
+  sort: 'attention' | 'deadline' | 'created' | 'status' | 'address' | 'window';
   direction: 'asc' | 'desc';
   limit: number;
   offset: number;
 }
 
-type Ordering = { column: string; order: 'asc' | 'desc' }[];
+type Ordering = { column: string | Knex.Raw; order: 'asc' | 'desc' }[];
+
+/** Orders with nothing left to do: a published report or a cancellation. */
+const CLOSED = "orders.status in ('published', 'cancelled')";
+
+/**
+ * The order a list is shown in, ending in the visit and the id so pages never overlap.
+ * "Needs attention" puts what is still open first, most urgent first, and below it what is
+ * done, most recent first: an agent with years of orders still finds this week's on page one.
+ */
+function listOrdering(db: Knex, filter: Pick<OrderListFilter, 'sort' | 'direction'>): Ordering {
+  const tail: Ordering = [
+    { column: 'orders.window_start', order: 'asc' },
+    { column: 'orders.id', order: 'asc' },
+  ];
+  if (filter.sort === 'attention') {
+    return [
+      { column: db.raw(`case when ${CLOSED} then 1 else 0 end`), order: 'asc' },
+      { column: db.raw(`case when ${CLOSED} then '' else orders.contingency_deadline end`), order: 'asc' },
+      { column: db.raw(`case when ${CLOSED} then orders.contingency_deadline else '' end`), order: 'desc' },
+      ...tail,
+    ];
+  }
+  const sortColumn = {
+    deadline: 'orders.contingency_deadline',
+    created: 'orders.created_at',
+    status: 'orders.status',
+    address: 'properties.street',
+    window: 'orders.window_date',
+  }[filter.sort];
+  return [{ column: sortColumn, order: filter.direction }, ...tail];
+}
 
 /**
  * One page of orders and the count of all that match. The page's ids come first from indexes
@@ -151,20 +183,9 @@ export async function listOrders(db: Knex, filter: OrderListFilter) {
       ? await db.from(personOrders(db, filter).select('order_id').as('mine')).count({ n: '*' }).first()
       : await matching(Boolean(filter.search)).count({ n: '*' }).first();
   const total = Number(countRow?.n ?? 0);
-  const sortColumn = {
-    deadline: 'orders.contingency_deadline',
-    created: 'orders.created_at',
-    status: 'orders.status',
-    address: 'properties.street',
-    window: 'orders.window_date',
-  }[filter.sort];
-  const order: Ordering = [
-    { column: sortColumn, order: filter.direction },
-    { column: 'orders.window_start', order: 'asc' },
-    { column: 'orders.id', order: 'asc' },
-  ];
+  const order = listOrdering(db, filter);
 
-  // The portal's default list (nearest deadline first) comes from the person's party rows.
+  // A person's list by deadline (the column sort) comes from their party rows.
   const ids =
     filter.partyUserId && !narrowed && filter.sort === 'deadline' && filter.direction === 'asc'
       ? await personPageByDeadline(db, filter, order)

@@ -13,7 +13,7 @@ const listQuerySchema = z.object({
     .optional()
     .transform((s) => (s === undefined ? undefined : Array.isArray(s) ? s : [s])),
   q: z.string().trim().max(100).optional(),
-  sort: z.enum(['deadline', 'created', 'status', 'address', 'window']).default('deadline'),
+  sort: z.enum(['attention', 'deadline', 'created', 'status', 'address', 'window']).default('attention'),
   direction: z.enum(['asc', 'desc']).default('asc'),
   limit: z.coerce.number().int().min(1).max(200).default(50),
   offset: z.coerce.number().int().min(0).default(0),

@@ -44,7 +44,8 @@ export interface OrderListItem {
   grade: string | null;
 }
 
-export type OrderSort = 'deadline' | 'created' | 'status' | 'address' | 'window';
+/** `attention`: open orders first, nearest deadline first, then closed ones, latest first. The others sort by one column. */
+export type OrderSort = 'attention' | 'deadline' | 'created' | 'status' | 'address' | 'window';
 
 export interface OrderListQuery {
   statuses?: readonly OrderStatus[];

@@ -92,16 +92,35 @@ describe('OrdersTable', () => {
     expect(within(rows[1]!).getByText('Paid')).toBeInTheDocument();
     expect(within(rows[1]!).getByText('Marco Ruiz')).toBeInTheDocument();
 
-    expect(within(table).getByRole('columnheader', { name: /Deadline/ })).toHaveAttribute('aria-sort', 'ascending');
+    // By default what still needs doing comes first: no column is the sort then.
     const first = new URL(requests[0]!.url, 'http://x');
-    expect(first.searchParams.get('sort')).toBe('deadline');
-    expect(first.searchParams.get('direction')).toBe('asc');
+    expect(first.searchParams.get('sort')).toBe('attention');
+    expect(within(table).getByRole('columnheader', { name: /Deadline/ })).not.toHaveAttribute('aria-sort', 'ascending');
 
-    await userEvent.setup().click(within(table).getByRole('button', { name: /Address/ }));
+    const user = userEvent.setup();
+    await user.click(within(table).getByRole('button', { name: /Deadline/ }));
+    await vi.waitFor(() => {
+      const last = new URL(requests.at(-1)!.url, 'http://x');
+      expect(last.searchParams.get('sort')).toBe('deadline');
+      expect(last.searchParams.get('direction')).toBe('asc');
+    });
+    expect(within(table).getByRole('columnheader', { name: /Deadline/ })).toHaveAttribute('aria-sort', 'ascending');
+    await user.click(within(table).getByRole('button', { name: /Address/ }));
     await vi.waitFor(() => {
       const last = new URL(requests.at(-1)!.url, 'http://x');
       expect(last.searchParams.get('sort')).toBe('address');
     });
+  });
+
+  it('goes back to "open first" from the sort menu', async () => {
+    const { requests } = mockFetch({ 'GET /api/orders': () => json({ total: 30, orders: [listItem({})] }) });
+    renderWithProviders(<OrdersTable area="portal" label="Your orders" emptyState={<p>No orders</p>} />, {
+      path: '/portal?sort=created&dir=desc',
+    });
+    await screen.findByRole('table', { name: 'Your orders' });
+    expect(new URL(requests[0]!.url, 'http://x').searchParams.get('sort')).toBe('created');
+    await userEvent.setup().selectOptions(screen.getByLabelText('Sort by'), 'Open first, nearest deadline');
+    await vi.waitFor(() => expect(new URL(requests.at(-1)!.url, 'http://x').searchParams.get('sort')).toBe('attention'));
   });
 
   it('asks the server with the address search once typing pauses', async () => {

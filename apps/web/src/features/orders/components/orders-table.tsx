@@ -23,8 +23,10 @@ export const ORDERS_PAGE_SIZE = 25;
 /** A handful of orders reads at a glance; search, filter and sort appear once there are more. */
 export const CONTROLS_FROM = 6;
 
-const sortKeys: readonly OrderSort[] = ['deadline', 'created', 'status', 'address', 'window'];
-const sortLabels: Record<OrderSort, string> = {
+/** The orders a column header sorts by, either way round. */
+const columnSortKeys = ['deadline', 'created', 'status', 'address', 'window'] as const satisfies readonly OrderSort[];
+const sortKeys: readonly OrderSort[] = ['attention', ...columnSortKeys];
+const sortLabels: Record<(typeof columnSortKeys)[number], string> = {
   deadline: 'Deadline',
   created: 'Date ordered',
   status: 'Status',
@@ -151,7 +153,8 @@ function useOrderListParams(defaultSort: OrderSort, defaultDirection: 'asc' | 'd
   const rawSort = params.get('sort');
   const sort: OrderSort = sortKeys.includes(rawSort as OrderSort) ? (rawSort as OrderSort) : defaultSort;
   const rawDir = params.get('dir');
-  const direction: 'asc' | 'desc' = rawDir === 'asc' || rawDir === 'desc' ? rawDir : defaultDirection;
+  // "Needs attention" has one way round.
+  const direction: 'asc' | 'desc' = sort === 'attention' ? 'asc' : rawDir === 'asc' || rawDir === 'desc' ? rawDir : defaultDirection;
   const rawStatus = params.get('status');
   const status = orderStatuses.includes(rawStatus as OrderStatus) ? (rawStatus as OrderStatus) : null;
   const q = params.get('q') ?? '';
@@ -173,7 +176,7 @@ export interface OrdersTableProps {
  * Orders as a sortable table on wide screens and a list of cards on phones.
  * Sorting, the status filter and the address search all run on the server.
  */
-export function OrdersTable({ area, emptyState, defaultSort = 'deadline', defaultDirection = 'asc', label }: OrdersTableProps) {
+export function OrdersTable({ area, emptyState, defaultSort = 'attention', defaultDirection = 'asc', label }: OrdersTableProps) {
   const { sort, direction, status, q, page, update } = useOrderListParams(defaultSort, defaultDirection);
   // Debounced: the server is asked once typing pauses.
   const [searchText, setSearchText] = useDebouncedSearch(q, (text) => update({ q: text || null }));
@@ -188,7 +191,8 @@ export function OrdersTable({ area, emptyState, defaultSort = 'deadline', defaul
   };
   const list = useQuery(orderListQueryOptions(query));
   const orders = useMemo(() => list.data?.orders ?? [], [list.data]);
-  const sorting: SortingState = [{ id: sort, desc: direction === 'desc' }];
+  // No column is sorted by "needs attention": no header shows an arrow then.
+  const sorting: SortingState = sort === 'attention' ? [] : [{ id: sort, desc: direction === 'desc' }];
 
   const table = useTable({
     features,
@@ -226,23 +230,24 @@ export function OrdersTable({ area, emptyState, defaultSort = 'deadline', defaul
           </option>
         ))}
       </FilterSelect>
-      {/* Phones have no column headers to click: the order is chosen here. */}
+      {/* Phones have no column headers to click, and "needs attention" is no column: the order is chosen here too. */}
       <FilterSelect
         label="Sort by"
-        className="sm:col-span-2 md:hidden"
+        className="sm:col-span-2 md:col-span-1"
         value={`${sort}:${direction}`}
         onChange={(e) => {
           const [nextSort, nextDir] = e.target.value.split(':');
           update({ sort: nextSort ?? null, dir: nextDir === 'desc' ? 'desc' : 'asc' });
         }}
       >
-        {sortKeys.map((key) => (
+        <option value="attention:asc">Open first, nearest deadline</option>
+        {columnSortKeys.map((key) => (
           <option key={`${key}:asc`} value={`${key}:asc`}>
             {sortLabels[key]}
             {key === 'created' ? ', oldest first' : key === 'address' || key === 'status' ? ', A to Z' : ', soonest first'}
           </option>
         ))}
-        {sortKeys.map((key) => (
+        {columnSortKeys.map((key) => (
           <option key={`${key}:desc`} value={`${key}:desc`}>
             {sortLabels[key]}
             {key === 'created' ? ', newest first' : key === 'address' || key === 'status' ? ', Z to A' : ', latest first'}
