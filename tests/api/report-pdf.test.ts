@@ -1,7 +1,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { getDocument } from 'pdfjs-dist/legacy/build/pdf.mjs';
 import { accessPointOffsets, collectFindings, findingFromBuilding, formatCents, formatFootage, type Inspection } from '@underfoot/core';
+import { pdfPages } from '../support/pdf-text.ts';
 import { publishReport, type ReportFixture } from '../support/report-fixtures.ts';
 import { browserLikeAgent, createTestContext, type TestContext } from '../support/test-app.ts';
 
@@ -43,19 +43,6 @@ const collect = (res: request.Response, callback: (err: Error | null, body: Buff
   res.on('data', (c: Buffer) => chunks.push(c));
   res.on('end', () => callback(null, Buffer.concat(chunks)));
 };
-
-/** Each page's text, lines joined with spaces and runs of white space collapsed. */
-async function pdfPages(bytes: Buffer): Promise<string[]> {
-  const pdf = await getDocument({ data: new Uint8Array(bytes), useSystemFonts: false, isEvalSupported: false }).promise;
-  const pages: string[] = [];
-  for (let n = 1; n <= pdf.numPages; n++) {
-    const content = await (await pdf.getPage(n)).getTextContent();
-    const text = content.items.map((item) => ('str' in item ? item.str + (item.hasEOL ? ' ' : '') : '')).join('');
-    pages.push(text.replace(/\s+/g, ' '));
-  }
-  await pdf.destroy();
-  return pages;
-}
 
 interface CostOption {
   name: string;

@@ -1,8 +1,9 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { InspectionInput, PartyRole } from '@underfoot/core';
+import { gradeGuidance, type GradeLevel, type InspectionInput, type PartyRole } from '@underfoot/core';
 import { phoneJpeg } from '../support/media-samples.ts';
 import { addParties, sampleDocument } from '../support/inspection-fixtures.ts';
+import { pdfPages } from '../support/pdf-text.ts';
 import { browserLikeAgent, createTestContext, type TestContext } from '../support/test-app.ts';
 
 /*
@@ -406,6 +407,21 @@ describe('share links and guests', () => {
       .get(`/api/shared/${tokenOf(made.body.url)}`)
       .expect(200);
     expect(read.body.purpose).toBe('disclosure');
+    // Whoever opens a listing's disclosure link is a prospective buyer: the grade speaks to the buyer,
+    // on the page and in the PDF, not to the seller who ordered it.
+    expect(read.body.readerSide).toBe('buyer');
+    const level = read.body.revision.snapshot.analysis.grade.level as GradeLevel;
+    const pdf = (await pdfPages((await guestBinary(`/api/shared/${tokenOf(made.body.url)}/pdf`).expect(200)).body as Buffer)).join(' ');
+    const opening = (text: string) => text.slice(0, text.indexOf('.') + 1);
+    expect(pdf).toContain(opening(gradeGuidance.buyer[level]));
+    expect(pdf).not.toContain(opening(gradeGuidance.seller[level]));
+
+    // A guest link made by the ordering side reads as that side's report, addressed to no one.
+    const guest = await (await listingAgent()).post(`/api/reports/${orderId}/share-links`, { label: 'Stager' });
+    const guestRead = await request(ctx.app)
+      .get(`/api/shared/${tokenOf(guest.body.url)}`)
+      .expect(200);
+    expect(guestRead.body.readerSide).toBeNull();
   });
 });
 

@@ -19,6 +19,11 @@ export function sideOf(partyRole: PartyRole): Side {
   return partyRole === 'buyers_agent' || partyRole === 'buyer' ? 'buyer' : 'seller';
 }
 
+/** The other side of the sale. */
+export function otherSide(side: Side): Side {
+  return side === 'buyer' ? 'seller' : 'buyer';
+}
+
 export const orderStatuses = ['requested', 'scheduled', 'recorded', 'in_review', 'published', 'cancelled'] as const;
 export type OrderStatus = (typeof orderStatuses)[number];
 

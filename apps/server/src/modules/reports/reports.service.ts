@@ -8,6 +8,7 @@ import {
   gradeInfo,
   inspectionSchema,
   propertyTypeNames,
+  otherSide,
   sideOf,
   sides,
   type Actor,
@@ -55,7 +56,6 @@ export interface ReportsServiceDeps {
 export type RevisionKind = RevisionRow['kind'];
 
 const actorOf = (u: UserRecord): Actor => ({ kind: 'user', userId: u.id, role: u.role, companyId: u.companyId });
-const otherSide = (side: Side): Side => (side === 'buyer' ? 'seller' : 'buyer');
 const isStaff = (u: UserRecord) => u.role === 'office' || u.role === 'inspector';
 
 /** Orders a report can be published from: recorded in the field, not yet published, not cancelled. */
@@ -637,6 +637,14 @@ export function createReportsService(deps: ReportsServiceDeps) {
     return { link, order, revision };
   }
 
+  /**
+   * Who a guest reads as. A disclosure link is for prospective buyers of a listing, so the grade
+   * speaks to them ("what this means for you") as the other side of the sale; anyone else with a
+   * link reads about the side that ordered.
+   */
+  const guestSide = (link: { purpose: string }, order: { ordering_side: Side }): Side | null =>
+    link.purpose === 'disclosure' ? otherSide(order.ordering_side) : null;
+
   /** A guest's read through a share link: the latest revision, without costs when the link says so. */
   async function readShared(token: string, options: { ip?: string | undefined } = {}) {
     const { link, order, revision } = await liveLink(token);
@@ -652,6 +660,7 @@ export function createReportsService(deps: ReportsServiceDeps) {
       orderId: order.id,
       purpose: link.purpose,
       expiresAt: link.expires_at,
+      readerSide: guestSide(link, order),
       revision: await viewOf(revision, { showCosts: Boolean(link.show_costs) }),
       changes: await comparisonFor(order.id, revision),
     };
@@ -720,7 +729,10 @@ export function createReportsService(deps: ReportsServiceDeps) {
   async function sharedPdf(token: string, options: { ip?: string | undefined } = {}) {
     const { link, order, revision } = await liveLink(token);
     const view = await viewOf(revision, { showCosts: Boolean(link.show_costs) });
-    const bytes = await renderReportPdf({ revision: view, changes: await comparisonFor(order.id, revision), readerSide: null }, imageBytes);
+    const bytes = await renderReportPdf(
+      { revision: view, changes: await comparisonFor(order.id, revision), readerSide: guestSide(link, order) },
+      imageBytes,
+    );
     await recordView(db, {
       orderId: order.id,
       revisionNumber: revision.number,

@@ -91,6 +91,8 @@ export interface SharedRead {
   orderId: string;
   purpose: 'guest' | 'disclosure';
   expiresAt: string | null;
+  /** The side the report speaks to as "you": the buyer on a listing's disclosure link, else null. */
+  readerSide: Side | null;
   revision: RevisionView;
   changes: RevisionComparison | null;
 }

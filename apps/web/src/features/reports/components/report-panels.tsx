@@ -1,5 +1,5 @@
 import { useQuery } from '@tanstack/react-query';
-import { partyRoleLabels, type OrderKind, type Side } from '@underfoot/core';
+import { otherSide, partyRoleLabels, type OrderKind, type Side } from '@underfoot/core';
 import { useId, useState, type FormEvent, type ReactNode } from 'react';
 import { toast } from 'sonner';
 import { Alert } from '@/components/ui/alert';
@@ -44,7 +44,7 @@ const sideNames: Record<Side, string> = { buyer: 'buyer', seller: 'seller' };
 /** The ordering side shares the report with the other side of the sale, or takes it back. */
 export function DisclosurePanel({ orderId, orderingSide, allowed }: { orderId: string; orderingSide: Side; allowed: ReportAllowed }) {
   const mutation = useDisclosure(orderId);
-  const other = orderingSide === 'buyer' ? 'seller' : 'buyer';
+  const other = otherSide(orderingSide);
   if (!allowed.disclose && !allowed.withdraw) return null;
   return (
     <Panel

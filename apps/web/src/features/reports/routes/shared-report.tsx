@@ -33,7 +33,7 @@ export function SharedReportFirstViewPage({ report, token }: { report: SharedRea
       <ReportFirstView
         revision={report.revision}
         changes={report.changes}
-        readerSide={null}
+        readerSide={report.readerSide}
         headerActions={<PdfButton href={sharedPdfHref(token)} />}
         notice={<SharedNotice report={report} />}
       />
@@ -68,7 +68,7 @@ export function SharedReportRoute() {
       <ReportDocument
         revision={data.revision}
         changes={data.changes}
-        readerSide={null}
+        readerSide={data.readerSide}
         media={sharedMedia(token)}
         headerActions={<PdfButton href={sharedPdfHref(token)} />}
         notice={<SharedNotice report={data} />}
