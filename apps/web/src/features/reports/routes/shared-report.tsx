@@ -12,13 +12,13 @@ import { sharedMedia, sharedPdfHref, sharedReportQueryOptions, type SharedRead }
 import { ReportDocument, ReportFirstView } from '../components/report-document';
 import { PdfButton } from '../components/pdf-button';
 
-/** Whose link this is and how long it works, above the report. */
-function SharedNotice({ report }: { report: SharedRead }) {
+/** Whose link this is and how long it works, above the report (`serverRendered`: the time in UTC, the reader's zone being unknown). */
+function SharedNotice({ report, serverRendered = false }: { report: SharedRead; serverRendered?: boolean }) {
   return (
     <p className="rounded-lg border border-line bg-sand/60 px-3.5 py-2.5 text-sm text-ink-muted">
       {report.purpose === 'disclosure'
         ? 'The seller shares this report with prospective buyers. It is read-only.'
-        : `Shared with you to read. ${report.expiresAt ? `This link works until ${formatDateTime(report.expiresAt)}.` : ''}`}
+        : `Shared with you to read. ${report.expiresAt ? `This link works until ${formatDateTime(report.expiresAt, { utc: serverRendered })}.` : ''}`}
     </p>
   );
 }
@@ -35,7 +35,7 @@ export function SharedReportFirstViewPage({ report, token }: { report: SharedRea
         changes={report.changes}
         readerSide={report.readerSide}
         headerActions={<PdfButton href={sharedPdfHref(token)} />}
-        notice={<SharedNotice report={report} />}
+        notice={<SharedNotice report={report} serverRendered />}
       />
     </SimpleLayout>
   );
