@@ -121,7 +121,7 @@ const CLOSED = "orders.status in ('published', 'cancelled')";
 
 /**
  * The order a list is shown in, ending in the visit and the id so pages never overlap.
- * "Needs attention" puts what is still open first, most urgent first, and below it what is
+ * `attention` ("open first") puts what is still open first, most urgent first, and below it what is
  * done, most recent first: an agent with years of orders still finds this week's on page one.
  */
 function listOrdering(db: Knex, filter: Pick<OrderListFilter, 'sort' | 'direction'>): Ordering {

@@ -153,7 +153,7 @@ function useOrderListParams(defaultSort: OrderSort, defaultDirection: 'asc' | 'd
   const rawSort = params.get('sort');
   const sort: OrderSort = sortKeys.includes(rawSort as OrderSort) ? (rawSort as OrderSort) : defaultSort;
   const rawDir = params.get('dir');
-  // "Needs attention" has one way round.
+  // "Open first" (attention) has one way round.
   const direction: 'asc' | 'desc' = sort === 'attention' ? 'asc' : rawDir === 'asc' || rawDir === 'desc' ? rawDir : defaultDirection;
   const rawStatus = params.get('status');
   const status = orderStatuses.includes(rawStatus as OrderStatus) ? (rawStatus as OrderStatus) : null;
@@ -191,7 +191,7 @@ export function OrdersTable({ area, emptyState, defaultSort = 'attention', defau
   };
   const list = useQuery(orderListQueryOptions(query));
   const orders = useMemo(() => list.data?.orders ?? [], [list.data]);
-  // No column is sorted by "needs attention": no header shows an arrow then.
+  // No column is sorted by "open first": no header shows an arrow then.
   const sorting: SortingState = sort === 'attention' ? [] : [{ id: sort, desc: direction === 'desc' }];
 
   const table = useTable({
@@ -230,7 +230,7 @@ export function OrdersTable({ area, emptyState, defaultSort = 'attention', defau
           </option>
         ))}
       </FilterSelect>
-      {/* Phones have no column headers to click, and "needs attention" is no column: the order is chosen here too. */}
+      {/* Phones have no column headers to click, and "open first" is no column: the order is chosen here too. */}
       <FilterSelect
         label="Sort by"
         className="sm:col-span-2 md:col-span-1"
